@@ -1,0 +1,34 @@
+module github.com/conelight/conelight
+
+go 1.26
+
+require (
+	github.com/golang/geo v0.0.0-20260818125358-b200a1149890
+	go-hep.org/x/hep v0.36.0
+	gonum.org/v1/gonum v0.17.0
+	gonum.org/v1/plot v0.17.0
+)
+
+require (
+	codeberg.org/go-fonts/liberation v0.5.0 // indirect
+	codeberg.org/go-latex/latex v0.2.0 // indirect
+	codeberg.org/go-pdf/fpdf v0.11.1 // indirect
+	git.sr.ht/~sbinet/gg v0.7.0 // indirect
+	github.com/ajstarks/svgo v0.0.0-20211024235047-1546f124cd8b // indirect
+	github.com/go-mmap/mmap v0.7.0 // indirect
+	github.com/golang/freetype v0.0.0-20170609003504-e2365dfdc4a0 // indirect
+	github.com/gonuts/binary v0.2.0 // indirect
+	github.com/hashicorp/go-uuid v1.0.3 // indirect
+	github.com/klauspost/compress v1.17.11 // indirect
+	github.com/pierrec/lz4/v4 v4.1.21 // indirect
+	github.com/pierrec/xxHash v0.1.5 // indirect
+	github.com/ulikunitz/xz v0.5.12 // indirect
+	golang.org/x/exp v0.0.0-20241009180824-f66d83c29e7c // indirect
+	golang.org/x/image v0.30.0 // indirect
+	golang.org/x/mod v0.27.0 // indirect
+	golang.org/x/sync v0.16.0 // indirect
+	golang.org/x/sys v0.35.0 // indirect
+	golang.org/x/text v0.28.0 // indirect
+	golang.org/x/tools v0.36.0 // indirect
+	gopkg.in/yaml.v3 v3.0.1 // indirect
+)
