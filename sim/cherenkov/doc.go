@@ -1,0 +1,13 @@
+// Package cherenkov emits Cherenkov light from the straight charged-track
+// segments (phys.Segment) that transport reports: the Frank-Tamm yield with
+// the dispersion of water over a wavelength band, the emission spectrum at
+// the local speed, and photons on the cone cos theta = 1/(n beta) about
+// the step direction.
+//
+// An Emitter can pre-scale the light by the sensors' largest detection
+// efficiency, so that photons no sensor could ever detect are never made;
+// the photon transport then applies the remaining efficiency ratio as a
+// survival probability.
+//
+// Units: lengths cm, times ns, energies MeV, wavelengths nm (vacuum).
+package cherenkov

@@ -1,0 +1,106 @@
+package photon
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/cherenkov"
+	"github.com/conelight/conelight/sim/optics"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// largeSetup is the large reference tank at 40% coverage with the large
+// sensor class and pure water.
+func largeSetup(b *testing.B) (*Tracer, *cherenkov.Emitter) {
+	b.Helper()
+	m := pmt.Large()
+	det, err := geom.Layout(geom.LargeTank(), m.CathodeDiameter, 0.40)
+	if err != nil {
+		b.Fatal(err)
+	}
+	w, err := optics.NewWater(optics.DefaultWaterConfig())
+	if err != nil {
+		b.Fatal(err)
+	}
+	tr, err := NewTracer(det, &m, w, Config{Liner: optics.DefaultLiner(), Prescale: m.MaxEfficiency()})
+	if err != nil {
+		b.Fatal(err)
+	}
+	lo, hi := m.QE.Range()
+	em, err := cherenkov.NewEmitter(w, lo, hi, m.MaxEfficiency())
+	if err != nil {
+		b.Fatal(err)
+	}
+	return tr, em
+}
+
+// BenchmarkPhotonLife is the whole life of a photon in the large tank:
+// Cherenkov emission along a beta = 1 step near the centre (pre-scaled by
+// the sensors' maximum efficiency), then transport, wall lookup and the
+// detection decision. The ns/photon metric is comparable with
+// BenchmarkPhotonFloor.
+func BenchmarkPhotonLife(b *testing.B) {
+	tr, em := largeSetup(b)
+	rng := rand.New(rand.NewPCG(1, 2))
+	seg := phys.Segment{Start: r3.Vector{X: 10, Y: -20, Z: 30}, End: r3.Vector{X: 10, Y: -20, Z: 40},
+		T1: 10 / phys.SpeedOfLight, Beta0: 1, Beta1: 1, Charge: -1, PDG: phys.MuonMinus}
+	var photons []cherenkov.Photon
+	var pes []pmt.Photoelectron
+	total := 0
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		var err error
+		photons, err = em.Emit(seg, rng, photons[:0])
+		if err != nil {
+			b.Fatal(err)
+		}
+		pes = tr.TraceAll(photons, rng, pes[:0], nil)
+		total += len(photons)
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(total), "ns/photon")
+	b.ReportMetric(float64(total)/float64(b.N), "photons/op")
+}
+
+// BenchmarkPhotonFloor is the least any photon life can cost: the random
+// draws of an isotropic direction, one exponential free path and a bare
+// ray-cylinder intersection from near the centre of the large tank, with
+// no wall classification, lookup, optics tables or detection.
+func BenchmarkPhotonFloor(b *testing.B) {
+	t := geom.LargeTank()
+	r, h := t.SensorRadius(), t.SensorHalfHeight()
+	rng := rand.New(rand.NewPCG(3, 4))
+	p := r3.Vector{X: 10, Y: -20, Z: 30}
+	var sink float64
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		c := 2*rng.Float64() - 1
+		s := math.Sqrt(1 - c*c)
+		sp, cp := math.Sincos(2 * math.Pi * rng.Float64())
+		ux, uy, uz := s*cp, s*sp, c
+		free := rng.ExpFloat64() * 5000
+		// Barrel: |p_xy + d u_xy| = r.
+		a := ux*ux + uy*uy
+		bb := p.X*ux + p.Y*uy
+		cc := p.X*p.X + p.Y*p.Y - r*r
+		d := math.Inf(1)
+		if a > 0 {
+			d = (-bb + math.Sqrt(bb*bb-a*cc)) / a
+		}
+		if uz > 0 {
+			d = math.Min(d, (h-p.Z)/uz)
+		} else if uz < 0 {
+			d = math.Min(d, (-h-p.Z)/uz)
+		}
+		sink += math.Min(d, free)
+	}
+	if sink == 0 {
+		b.Fatal("no distance")
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N), "ns/photon")
+}
