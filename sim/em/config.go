@@ -62,8 +62,20 @@ type Config struct {
 
 // DefaultConfig returns the cuts tied to the Cherenkov threshold of water
 // with n = 1.34, steps of at most 1 cm and 3% continuous energy loss.
-func DefaultConfig() Config {
-	const n = 1.34
+func DefaultConfig() Config { return configForIndex(1.34) }
+
+// ConfigForIndex returns DefaultConfig with the cuts tied to the
+// Cherenkov threshold of refractive index n instead: charged and delta
+// cuts at the threshold kinetic energy, photon and brems cuts at the
+// photon energy whose Compton edge reaches it.
+func ConfigForIndex(n float64) (Config, error) {
+	if _, err := CherenkovThreshold(n); err != nil {
+		return Config{}, err
+	}
+	return configForIndex(n), nil
+}
+
+func configForIndex(n float64) Config {
 	tc := cherenkovThreshold(n)
 	kc := ComptonThreshold(tc)
 	return Config{

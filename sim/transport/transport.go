@@ -45,6 +45,9 @@ type Primary struct {
 	// Range is the straight-line distance from the start to the end point
 	// of the primary (cm), on the same footing as TrackLength.
 	Range float64
+	// End is the end point of the primary's own track on the same
+	// footing (the start point for photons and skipped particles).
+	End r3.Vector
 	// Segments counts the Cherenkov segments of the primary and all its
 	// descendants.
 	Segments int
@@ -175,6 +178,7 @@ func (t *Tracker) Run(primaries []phys.Particle, vol phys.Volume, rng *rand.Rand
 	for i := range t.prims {
 		pr := &t.prims[i]
 		if pr.MuonFate == 0 && !pr.Skipped {
+			pr.End = t.end[i]
 			pr.Range = t.end[i].Sub(pr.Particle.Pos).Norm()
 		}
 	}
@@ -193,7 +197,7 @@ func (t *Tracker) follow(p phys.Particle, primary bool, vol phys.Volume, rng *ra
 		}
 		if primary {
 			pr := &t.prims[p.Track-1]
-			pr.TrackLength, pr.Range = tr.TrackLength, tr.Range
+			pr.TrackLength, pr.Range, pr.End = tr.TrackLength, tr.Range, tr.EndPos
 			pr.MuonFate, pr.DecayTime, pr.Decay = tr.Fate, tr.DecayTime, tr.Decay
 		}
 		return nil

@@ -217,3 +217,64 @@ func TestMuonLightFollowsFrankTamm(t *testing.T) {
 		t.Errorf("only %g photons expected from a 1 GeV muon", expected)
 	}
 }
+
+func TestMuonVisibleLengthVsRange(t *testing.T) {
+	// A stopping muon shines from its start until it falls below the
+	// Cherenkov threshold, so its visible track length is the CSDA range
+	// at its start energy minus the CSDA range at the threshold energy
+	// (ranges from the muon tables checked against Groom, Mokhov and
+	// Striganov 2001 in sim/muon). Range straggling of a few percent
+	// (Bohr) makes the mean of n muons scatter by sigma/sqrt(n).
+	const n1 = 1.34
+	muCfg := muon.DefaultConfig()
+	muCfg.ThresholdIndex = n1
+	p, err := New(material.Water(), em.DefaultConfig(), muCfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := NewTracker(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tth, err := cherenkov.ThresholdKinetic(phys.MuonMass, n1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const ekin = 500.0
+	r0, _ := p.Muon.CSDARange(ekin)
+	r1, _ := p.Muon.CSDARange(tth)
+	want := (r0 - r1) / material.Water().Density
+	rng := rand.New(rand.NewPCG(7, 8))
+	vol := geom.LargeTank()
+	const n = 40
+	lengths := make([]float64, n)
+	for i := range lengths {
+		var rec recorder
+		out, err := tr.Run([]phys.Particle{{PDG: phys.MuonPlus, Dir: r3.Vector{X: 1}, Ekin: ekin}}, vol, rng, &rec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, s := range rec.segs {
+			if s.Track == 1 {
+				lengths[i] += s.Length()
+			}
+		}
+		if lengths[i] > out[0].TrackLength+1e-9 {
+			t.Fatalf("visible length %g above the track length %g", lengths[i], out[0].TrackLength)
+		}
+	}
+	var mean, sd float64
+	for _, l := range lengths {
+		mean += l / n
+	}
+	for _, l := range lengths {
+		sd += (l - mean) * (l - mean) / (n - 1)
+	}
+	sd = math.Sqrt(sd)
+	// Segment lengths are chords of multiply-scattered steps, shorter than
+	// the path by a fraction of order theta0^2 per step (< 1e-3 here).
+	t.Logf("visible %.2f +- %.2f, want %.2f", mean, sd/math.Sqrt(n), want)
+	if math.Abs(mean-want) > 5*sd/math.Sqrt(n)+2e-3*want {
+		t.Errorf("visible track length %.2f +- %.2f cm, CSDA expects %.2f cm", mean, sd/math.Sqrt(n), want)
+	}
+}

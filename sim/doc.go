@@ -1,0 +1,34 @@
+// Package sim is the event simulator of conelight: given a detector
+// (geom), a sensor model (pmt), water optics (sim/optics), a trigger and a
+// run seed, it turns the primaries of each event into digitized hits with
+// their Monte Carlo truth (sim/event).
+//
+// For each event, in order:
+//
+//  1. the generator draws the primaries from the event's random stream
+//     EventStream(Seed, number);
+//  2. sim/transport follows them and all their descendants (sim/em for
+//     electrons, positrons and photons, sim/muon for muons);
+//  3. every charged step above threshold emits its Cherenkov photons
+//     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
+//     each photon is traced at once to the wall (sim/photon), so no event
+//     ever holds its photons in memory;
+//  4. dark pulses are added over the signal span plus the readout margins
+//     (pmt.Model.AddDark), photoelectrons are digitized (pmt.Digitizer),
+//     and the trigger (pmt.Trigger) decides the readout window.
+//
+// Hit times are on the event clock: ns since the primaries' time origin
+// (the generator's vertex time). Only the first trigger of an event is
+// read out; light arriving after the readout window (for example from a
+// muon's decay electron microseconds later) is in the truth counts but
+// not in the hits.
+//
+// Run spreads events over Config.Workers goroutines. Each event depends
+// only on (Seed, number), so the output is bit-identical for any number of
+// workers and for any split into shards (RunOptions.Shard, Shards): shard
+// k of n makes events First+k, First+k+n, ...; sim/event.Merge joins the
+// shard files. Events stream to the caller in number order, with at most
+// a few per worker in memory.
+//
+// A *Simulator is immutable after New and safe for concurrent use.
+package sim

@@ -1,0 +1,205 @@
+package sim
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math/rand/v2"
+	"sync"
+	"time"
+
+	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// Generator makes the primaries of event number from the event's random
+// stream. Implementations (see sim/gen) must be safe for concurrent use
+// and draw only from rng, so that an event depends on (seed, number) alone.
+type Generator interface {
+	Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, error)
+}
+
+// RunOptions selects the events of a run and how it reports.
+type RunOptions struct {
+	// First and Count: the run covers event numbers First .. First+Count-1.
+	First, Count uint64
+	// Shard and Shards split the run for a batch system: this run makes
+	// only the events whose number n has (n - First) mod Shards == Shard.
+	// Shards 0 means 1. Every event has the same random stream as in the
+	// unsplit run, so merged shards equal the unsplit run.
+	Shard, Shards int
+	// Progress, when set, is called from Run's goroutine about every
+	// ProgressEvery (default 1 s) and once at the end.
+	Progress      func(Progress)
+	ProgressEvery time.Duration
+}
+
+// Progress reports a run's advance.
+type Progress struct {
+	Done, Total uint64 // events simulated (kept or dropped) and to do
+	Kept        uint64 // events passed to the output
+	Elapsed     time.Duration
+	Rate        float64       // events per second so far
+	Remaining   time.Duration // estimate at the current rate
+}
+
+// jobs returns the number of events this shard makes and the number of
+// its i-th event.
+func (o RunOptions) jobs() (n uint64, number func(i uint64) uint64, err error) {
+	shards := o.Shards
+	if shards == 0 {
+		shards = 1
+	}
+	if shards < 0 || o.Shard < 0 || o.Shard >= shards {
+		return 0, nil, fmt.Errorf("sim: RunOptions.Shard = %d, Shards = %d: want 0 <= Shard < Shards", o.Shard, o.Shards)
+	}
+	if o.First+o.Count < o.First {
+		return 0, nil, fmt.Errorf("sim: RunOptions.First = %d + Count = %d overflows", o.First, o.Count)
+	}
+	k, s := uint64(o.Shard), uint64(shards)
+	if o.Count > k {
+		n = (o.Count-k-1)/s + 1
+	}
+	return n, func(i uint64) uint64 { return o.First + k + i*s }, nil
+}
+
+type result struct {
+	i   uint64
+	ev  *event.Event
+	err error
+}
+
+// Run simulates the events selected by opt on Config.Workers goroutines
+// and passes each kept event to out in event-number order, one at a time
+// from Run's goroutine. At most a few events per worker are in memory at
+// once, so a run of any length streams to its writer. The output is the
+// same for any number of workers.
+//
+// Run stops at the first error from the generator, the simulation or out,
+// and when ctx is cancelled; it returns after every event already handed
+// to out, with the error (ctx.Err() on cancellation). The events passed to
+// out before that are a complete in-order prefix of the run.
+func (s *Simulator) Run(ctx context.Context, g Generator, opt RunOptions, out func(*event.Event) error) error {
+	if g == nil || out == nil {
+		return errors.New("sim: Run needs a generator and an output function")
+	}
+	n, number, err := opt.jobs()
+	if err != nil {
+		return err
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	workers := s.cfg.Workers
+	window := 4 * workers
+	tokens := make(chan struct{}, window)
+	jobs := make(chan uint64)
+	results := make(chan result, window)
+	go func() {
+		defer close(jobs)
+		for i := uint64(0); i < n; i++ {
+			select {
+			case tokens <- struct{}{}:
+			case <-ctx.Done():
+				return
+			}
+			select {
+			case jobs <- i:
+			case <-ctx.Done():
+				return
+			}
+		}
+	}()
+	var wg sync.WaitGroup
+	for k := 0; k < workers; k++ {
+		w, err := s.newWorker()
+		if err != nil {
+			cancel()
+			return err
+		}
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var prims []phys.Particle
+			for i := range jobs {
+				num := number(i)
+				rng := EventStream(s.cfg.Seed, num)
+				var r result
+				r.i = i
+				prims, r.err = g.Generate(num, rng, prims[:0])
+				if r.err != nil {
+					r.err = fmt.Errorf("sim: event %d: generator: %w", num, r.err)
+				} else {
+					r.ev, r.err = w.simulate(num, rng, prims)
+				}
+				results <- r
+			}
+		}()
+	}
+	go func() { wg.Wait(); close(results) }()
+
+	every := opt.ProgressEvery
+	if every <= 0 {
+		every = time.Second
+	}
+	start := time.Now()
+	lastReport := start
+	var done, kept uint64
+	report := func() {
+		if opt.Progress == nil {
+			return
+		}
+		el := time.Since(start)
+		p := Progress{Done: done, Total: n, Kept: kept, Elapsed: el}
+		if el > 0 {
+			p.Rate = float64(done) / el.Seconds()
+		}
+		if p.Rate > 0 {
+			p.Remaining = time.Duration(float64(n-done) / p.Rate * float64(time.Second))
+		}
+		opt.Progress(p)
+	}
+	pending := make(map[uint64]result, window)
+	var next uint64
+	var firstErr error
+	for r := range results {
+		if firstErr != nil {
+			continue // drain
+		}
+		pending[r.i] = r
+		for {
+			r, ok := pending[next]
+			if !ok {
+				break
+			}
+			delete(pending, next)
+			next++
+			<-tokens
+			if r.err != nil {
+				firstErr = r.err
+				cancel()
+				break
+			}
+			done++
+			if r.ev.Truth.Triggered || s.cfg.KeepUntriggered {
+				if err := out(r.ev); err != nil {
+					firstErr = err
+					cancel()
+					break
+				}
+				kept++
+			}
+		}
+		if opt.Progress != nil && time.Since(lastReport) >= every {
+			lastReport = time.Now()
+			report()
+		}
+	}
+	report()
+	if firstErr != nil {
+		return firstErr
+	}
+	if done < n {
+		return ctx.Err()
+	}
+	return nil
+}
