@@ -11,6 +11,7 @@ import (
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -49,8 +50,10 @@ type fixedGun struct {
 	ekin float64
 }
 
-func (g fixedGun) Generate(_ uint64, _ *rand.Rand, dst []phys.Particle) ([]phys.Particle, error) {
-	return append(dst, phys.Particle{PDG: g.pdg, Pos: r3.Vector{X: -100}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: g.ekin}), nil
+func (g fixedGun) String() string { return "fixed gun" }
+
+func (g fixedGun) Generate(_ uint64, _ *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
+	return append(dst, phys.Particle{PDG: g.pdg, Pos: r3.Vector{X: -100}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: g.ekin}), gen.Info{}, nil
 }
 
 // BenchmarkEvent is one whole event (transport, Cherenkov light, photon
@@ -77,7 +80,7 @@ func BenchmarkEvent(b *testing.B) {
 				b.ReportAllocs()
 				for i := 0; i < b.N; i++ {
 					rng := EventStream(1, uint64(i))
-					prims, _ := g.Generate(uint64(i), rng, nil)
+					prims, _, _ := g.Generate(uint64(i), rng, nil)
 					ev, err := s.Event(uint64(i), prims)
 					if err != nil {
 						b.Fatal(err)

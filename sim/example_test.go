@@ -4,12 +4,12 @@ import (
 	"context"
 	"fmt"
 	"log"
-	"math/rand/v2"
 
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -34,14 +34,6 @@ func ExampleSimulator_Event() {
 	// between 30 and 100 signal photoelectrons: true
 }
 
-// muonGun makes one 400 MeV mu- per event from the centre, isotropic.
-type muonGun struct{}
-
-func (muonGun) Generate(_ uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, error) {
-	dir := r3.Vector{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}.Normalize()
-	return append(dst, phys.Particle{PDG: phys.MuonMinus, Dir: dir, Ekin: 400}), nil
-}
-
 // A run of 20 events on all cores, streamed in event order.
 func ExampleSimulator_Run() {
 	cfg, err := sim.DemoConfig(7)
@@ -52,8 +44,16 @@ func ExampleSimulator_Run() {
 	if err != nil {
 		log.Fatal(err)
 	}
+	// 400 MeV mu- from the centre, isotropic.
+	gun, err := gen.NewGun(gen.GunConfig{
+		Particles: []gen.GunParticle{{PDG: phys.MuonMinus, Energy: gen.FixedEnergy(400), Direction: gen.Isotropic()}},
+		Vertex:    gen.AtPoint(r3.Vector{}),
+	})
+	if err != nil {
+		log.Fatal(err)
+	}
 	n := 0
-	err = s.Run(context.Background(), muonGun{}, sim.RunOptions{Count: 20}, func(ev *event.Event) error {
+	err = s.Run(context.Background(), gun, sim.RunOptions{Count: 20}, func(ev *event.Event) error {
 		n++
 		return nil
 	})

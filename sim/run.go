@@ -4,20 +4,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"math/rand/v2"
 	"sync"
 	"time"
 
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// Generator makes the primaries of event number from the event's random
-// stream. Implementations (see sim/gen) must be safe for concurrent use
-// and draw only from rng, so that an event depends on (seed, number) alone.
-type Generator interface {
-	Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, error)
-}
 
 // RunOptions selects the events of a run and how it reports.
 type RunOptions struct {
@@ -63,6 +56,22 @@ func (o RunOptions) jobs() (n uint64, number func(i uint64) uint64, err error) {
 	return n, func(i uint64) uint64 { return o.First + k + i*s }, nil
 }
 
+// NeutrinoTruth returns the neutrino part of an event's truth from the
+// generator's information (the zero value for non-neutrino events).
+func NeutrinoTruth(info gen.Info) event.Neutrino {
+	if info.Neutrino == 0 {
+		return event.Neutrino{}
+	}
+	return event.Neutrino{
+		PDG:     info.Neutrino,
+		Energy:  info.NeutrinoEnergy,
+		Dir:     info.NeutrinoDir,
+		Q2:      info.Q2,
+		Target:  info.Target,
+		Nucleon: info.FinalNucleon,
+	}
+}
+
 type result struct {
 	i   uint64
 	ev  *event.Event
@@ -79,7 +88,7 @@ type result struct {
 // and when ctx is cancelled; it returns after every event already handed
 // to out, with the error (ctx.Err() on cancellation). The events passed to
 // out before that are a complete in-order prefix of the run.
-func (s *Simulator) Run(ctx context.Context, g Generator, opt RunOptions, out func(*event.Event) error) error {
+func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, out func(*event.Event) error) error {
 	if g == nil || out == nil {
 		return errors.New("sim: Run needs a generator and an output function")
 	}
@@ -125,11 +134,12 @@ func (s *Simulator) Run(ctx context.Context, g Generator, opt RunOptions, out fu
 				rng := EventStream(s.cfg.Seed, num)
 				var r result
 				r.i = i
-				prims, r.err = g.Generate(num, rng, prims[:0])
+				var info gen.Info
+				prims, info, r.err = g.Generate(num, rng, prims[:0])
 				if r.err != nil {
 					r.err = fmt.Errorf("sim: event %d: generator: %w", num, r.err)
-				} else {
-					r.ev, r.err = w.simulate(num, rng, prims)
+				} else if r.ev, r.err = w.simulate(num, rng, prims); r.err == nil {
+					r.ev.Truth.Neutrino = NeutrinoTruth(info)
 				}
 				results <- r
 			}

@@ -11,6 +11,7 @@ import (
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -18,12 +19,14 @@ import (
 // point within 200 cm of the centre, isotropic.
 type isoElectrons struct{ ekin float64 }
 
-func (g isoElectrons) Generate(_ uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, error) {
+func (g isoElectrons) String() string { return "test electrons" }
+
+func (g isoElectrons) Generate(_ uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
 	c := 2*rng.Float64() - 1
 	phi := 2 * math.Pi * rng.Float64()
 	s := math.Sqrt(1 - c*c)
 	pos := r3.Vector{X: 400*rng.Float64() - 200, Y: 400*rng.Float64() - 200, Z: 400*rng.Float64() - 200}
-	return append(dst, phys.Particle{PDG: phys.Electron, Pos: pos, Dir: r3.Vector{X: s * math.Cos(phi), Y: s * math.Sin(phi), Z: c}, Ekin: g.ekin}), nil
+	return append(dst, phys.Particle{PDG: phys.Electron, Pos: pos, Dir: r3.Vector{X: s * math.Cos(phi), Y: s * math.Sin(phi), Z: c}, Ekin: g.ekin}), gen.Info{}, nil
 }
 
 func demoSim(t testing.TB, workers int, mod func(*Config)) *Simulator {
@@ -100,7 +103,7 @@ func TestRunShards(t *testing.T) {
 	// stream, gives the same event as the run.
 	o := all[7]
 	rng := EventStream(s.Config().Seed, o.Number)
-	prims, _ := isoElectrons{8}.Generate(o.Number, rng, nil)
+	prims, _, _ := isoElectrons{8}.Generate(o.Number, rng, nil)
 	w, err := s.newWorker()
 	if err != nil {
 		t.Fatal(err)
@@ -152,5 +155,31 @@ func TestRunCancelAndErrors(t *testing.T) {
 	}
 	if last := reports[len(reports)-1]; last.Done != 4 || last.Total != 4 {
 		t.Errorf("final progress %+v", last)
+	}
+}
+
+func TestRunNeutrinoTruth(t *testing.T) {
+	// A quasi-elastic nu_mu run keeps the generator's neutrino truth with
+	// each event, and the charged lepton is the primary.
+	qe, err := gen.NewQE(gen.QEConfig{Neutrino: phys.MuonNeu, Energy: gen.FixedEnergy(600),
+		Beam: r3.Vector{X: 1}, Vertex: gen.AtPoint(r3.Vector{})})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
+	n := 0
+	err = s.Run(context.Background(), qe, RunOptions{Count: 6}, func(ev *event.Event) error {
+		n++
+		nu := ev.Truth.Neutrino
+		if nu.PDG != phys.MuonNeu || nu.Energy != 600 || nu.Q2 <= 0 || nu.Dir != (r3.Vector{X: 1}) {
+			t.Errorf("event %d: neutrino truth %+v", ev.Number, nu)
+		}
+		if len(ev.Truth.Primaries) != 1 || ev.Truth.Primaries[0].PDG != phys.MuonMinus {
+			t.Errorf("event %d: primaries %+v", ev.Number, ev.Truth.Primaries)
+		}
+		return nil
+	})
+	if err != nil || n != 6 {
+		t.Fatalf("run: %v, %d events", err, n)
 	}
 }

@@ -1,0 +1,318 @@
+package event
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// Event is one simulated event: its number, the Monte Carlo truth and the
+// digitized hits. It is a plain value; the reader returns fresh slices for
+// every event, so an Event may be kept after the iteration moves on.
+type Event struct {
+	// Number is the event number. The simulator derives the event's random
+	// stream from the run seed and this number, so (RunInfo.Seed, Number)
+	// identifies the event.
+	Number uint64
+	// Truth is what happened in the event; the detector cannot see it.
+	Truth Truth
+	// Hits are the digitized sensor signals read out (sensor index, time ns,
+	// charge pe), as pmt.Digitizer and pmt.Trigger.Readout produce them.
+	Hits []pmt.Hit
+}
+
+// Truth is the Monte Carlo truth of one event.
+//
+// The photoelectron counts obey Photoelectrons = PEDirect + PEScattered +
+// PEReflected (every signal photoelectron has exactly one pmt.Origin other
+// than Dark); Validate checks it.
+type Truth struct {
+	// Primaries are the particles the generator started the event with
+	// (positions cm, unit directions, times ns, kinetic energies MeV).
+	Primaries []phys.Particle
+	// Tracks summarizes the transport of each primary, normally one per
+	// primary in the same order.
+	Tracks []Track
+
+	// Photons is the number of Cherenkov photons actually traced, after
+	// the emission pre-scaling (compare Track.VisiblePhotons, which is
+	// before it).
+	Photons int
+	// Photoelectrons is the number of signal (non-dark) photoelectrons made
+	// at the photocathodes, before digitization.
+	Photoelectrons int
+	// DarkPE is the number of dark-pulse photoelectrons added.
+	DarkPE int
+	// PEDirect, PEScattered and PEReflected split Photoelectrons by the
+	// origin of their light (pmt.Direct, pmt.Scattered, pmt.Reflected).
+	PEDirect, PEScattered, PEReflected int
+
+	// Triggered says whether the hit-multiplicity trigger fired;
+	// TriggerTime (ns) is its time, 0 when it did not fire.
+	Triggered   bool
+	TriggerTime float64
+
+	// Neutrino is the interaction truth of a neutrino event; the zero
+	// value when the event was not made by a neutrino generator.
+	Neutrino Neutrino
+}
+
+// Neutrino is the truth of the neutrino interaction that made an event.
+type Neutrino struct {
+	// PDG is the neutrino's PDG code (12, -12, 14, -14, ...); 0 for "no
+	// neutrino".
+	PDG int
+	// Energy is the neutrino energy, MeV.
+	Energy float64
+	// Dir is the neutrino's unit direction of flight.
+	Dir r3.Vector
+	// Q2 is the four-momentum transfer squared, MeV^2 (positive).
+	Q2 float64
+	// Target is the PDG code of the struck target: a nucleus as
+	// 100ZZZAAAI (oxygen-16 is 1000080160) or 2212 for a free proton.
+	Target int
+	// Nucleon is the outgoing nucleon (PDG 0 when there is none).
+	Nucleon phys.Particle
+}
+
+// Track is the transport summary of one primary particle.
+type Track struct {
+	// PDG is the particle's PDG code.
+	PDG int
+	// Length is the path length travelled, cm.
+	Length float64
+	// Range is the straight distance from the start to the end point, cm.
+	Range float64
+	// Fate says how the track ended.
+	Fate Fate
+	// DecayTime is the time (ns, event clock) of the decay or capture;
+	// 0 when the particle did neither.
+	DecayTime float64
+	// VisiblePhotons is the expected number of Cherenkov photons emitted
+	// in the simulated band by this particle and all its descendants,
+	// before pre-scaling (the physical number, as a float64 expectation:
+	// the sum of the Frank-Tamm yields of the segments).
+	VisiblePhotons float64
+	// Secondaries is the number of secondary particles this primary and
+	// its descendants produced.
+	Secondaries int
+}
+
+// Fate says how a track ended. The values are stored in the file as the
+// integer codes given below and must not be renumbered.
+type Fate int
+
+const (
+	// NoFate (0): not recorded.
+	NoFate Fate = iota
+	// Exited (1): the particle left the tracking volume.
+	Exited
+	// Stopped (2): the particle came to rest (or fell below the tracking
+	// cut) and did not decay or get captured.
+	Stopped
+	// StoppedDecayed (3): it stopped and decayed at rest.
+	StoppedDecayed
+	// StoppedCaptured (4): it stopped and was captured by a nucleus.
+	StoppedCaptured
+	// DecayedInFlight (5): it decayed before stopping.
+	DecayedInFlight
+	// Interacted (6): it ended in an interaction that absorbed it (photon
+	// conversion or photoabsorption, a hadronic interaction).
+	Interacted
+
+	numFates // one past the last known fate
+)
+
+var fateNames = [numFates]string{"none", "exited", "stopped", "stopped-decayed", "stopped-captured", "decayed-in-flight", "interacted"}
+
+// String returns the fate's name.
+func (f Fate) String() string {
+	if f.valid() {
+		return fateNames[f]
+	}
+	return fmt.Sprintf("Fate(%d)", int(f))
+}
+
+func (f Fate) valid() bool { return f >= 0 && f < numFates }
+
+// Validate checks e for storage with a detector of nSensors sensors: every
+// hit sensor index in [0, nSensors), every float finite, every count
+// non-negative, the photoelectron split summing to Photoelectrons, every
+// Fate known and every integer small enough for the 32-bit file columns.
+// The error names the first bad field and its value. Validate does not
+// allocate unless it fails.
+func (e *Event) Validate(nSensors int) error {
+	if e == nil {
+		return fmt.Errorf("event: nil *Event")
+	}
+	fail := func(field, msg string) error {
+		return fmt.Errorf("event: event %d: %s = %s", e.Number, field, msg)
+	}
+	if msg := badLength(len(e.Hits)); msg != "" {
+		return fail("len(Hits)", msg)
+	}
+	for i, h := range e.Hits {
+		if h.Sensor < 0 || h.Sensor >= nSensors {
+			return fail(fmt.Sprintf("Hits[%d].Sensor", i), fmt.Sprintf("%d outside [0, %d)", h.Sensor, nSensors))
+		}
+		if msg := badFloat(h.Time); msg != "" {
+			return fail(fmt.Sprintf("Hits[%d].Time", i), msg)
+		}
+		if msg := badFloat(h.Charge); msg != "" {
+			return fail(fmt.Sprintf("Hits[%d].Charge", i), msg)
+		}
+	}
+	t := &e.Truth
+	if msg := badLength(len(t.Primaries)); msg != "" {
+		return fail("len(Truth.Primaries)", msg)
+	}
+	for i := range t.Primaries {
+		if field, msg := badParticle(&t.Primaries[i]); msg != "" {
+			return fail(fmt.Sprintf("Truth.Primaries[%d].%s", i, field), msg)
+		}
+	}
+	if msg := badLength(len(t.Tracks)); msg != "" {
+		return fail("len(Truth.Tracks)", msg)
+	}
+	for i := range t.Tracks {
+		if field, msg := badTrack(&t.Tracks[i]); msg != "" {
+			return fail(fmt.Sprintf("Truth.Tracks[%d].%s", i, field), msg)
+		}
+	}
+	counts := [...]struct {
+		name string
+		n    int
+	}{
+		{"Truth.Photons", t.Photons}, {"Truth.Photoelectrons", t.Photoelectrons}, {"Truth.DarkPE", t.DarkPE},
+		{"Truth.PEDirect", t.PEDirect}, {"Truth.PEScattered", t.PEScattered}, {"Truth.PEReflected", t.PEReflected},
+	}
+	for _, c := range counts {
+		if c.n < 0 {
+			return fail(c.name, fmt.Sprintf("%d must not be negative", c.n))
+		}
+	}
+	if sum := t.PEDirect + t.PEScattered + t.PEReflected; sum != t.Photoelectrons {
+		return fail("Truth.Photoelectrons", fmt.Sprintf("%d differs from PEDirect+PEScattered+PEReflected = %d", t.Photoelectrons, sum))
+	}
+	if msg := badFloat(t.TriggerTime); msg != "" {
+		return fail("Truth.TriggerTime", msg)
+	}
+	if !t.Triggered && t.TriggerTime != 0 {
+		return fail("Truth.TriggerTime", fmt.Sprintf("%v must be 0 when Triggered is false", t.TriggerTime))
+	}
+	if field, msg := badNeutrino(&t.Neutrino); msg != "" {
+		return fail("Truth.Neutrino."+field, msg)
+	}
+	return nil
+}
+
+// The bad* helpers return "" for a good value, else the complaint (and
+// the sub-field it concerns), so that names are formatted only on failure.
+
+func badFloat(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return fmt.Sprintf("%v must be finite", v)
+	}
+	return ""
+}
+
+func badVector(v r3.Vector) (string, string) {
+	for _, c := range [...]struct {
+		name string
+		v    float64
+	}{{"X", v.X}, {"Y", v.Y}, {"Z", v.Z}} {
+		if msg := badFloat(c.v); msg != "" {
+			return c.name, msg
+		}
+	}
+	return "", ""
+}
+
+func badInt32(n int) string {
+	if n < math.MinInt32 || n > math.MaxInt32 {
+		return fmt.Sprintf("%d does not fit the file's 32-bit integer column", n)
+	}
+	return ""
+}
+
+func badLength(n int) string {
+	if n > math.MaxInt32 {
+		return fmt.Sprintf("%d does not fit the file's 32-bit count column", n)
+	}
+	return ""
+}
+
+func badParticle(p *phys.Particle) (string, string) {
+	if msg := badInt32(p.PDG); msg != "" {
+		return "PDG", msg
+	}
+	if f, msg := badVector(p.Pos); msg != "" {
+		return "Pos." + f, msg
+	}
+	if f, msg := badVector(p.Dir); msg != "" {
+		return "Dir." + f, msg
+	}
+	if msg := badFloat(p.Time); msg != "" {
+		return "Time", msg
+	}
+	if msg := badFloat(p.Ekin); msg != "" {
+		return "Ekin", msg
+	}
+	if msg := badInt32(p.Parent); msg != "" {
+		return "Parent", msg
+	}
+	if msg := badInt32(p.Track); msg != "" {
+		return "Track", msg
+	}
+	return "", ""
+}
+
+func badTrack(tr *Track) (string, string) {
+	if msg := badInt32(tr.PDG); msg != "" {
+		return "PDG", msg
+	}
+	for _, c := range [...]struct {
+		name string
+		v    float64
+	}{{"Length", tr.Length}, {"Range", tr.Range}, {"DecayTime", tr.DecayTime}, {"VisiblePhotons", tr.VisiblePhotons}} {
+		if msg := badFloat(c.v); msg != "" {
+			return c.name, msg
+		}
+	}
+	if !tr.Fate.valid() {
+		return "Fate", fmt.Sprintf("%d is not a known fate", int(tr.Fate))
+	}
+	if tr.Secondaries < 0 {
+		return "Secondaries", fmt.Sprintf("%d must not be negative", tr.Secondaries)
+	}
+	if msg := badInt32(tr.Secondaries); msg != "" {
+		return "Secondaries", msg
+	}
+	return "", ""
+}
+
+func badNeutrino(nu *Neutrino) (string, string) {
+	if msg := badInt32(nu.PDG); msg != "" {
+		return "PDG", msg
+	}
+	if msg := badFloat(nu.Energy); msg != "" {
+		return "Energy", msg
+	}
+	if f, msg := badVector(nu.Dir); msg != "" {
+		return "Dir." + f, msg
+	}
+	if msg := badFloat(nu.Q2); msg != "" {
+		return "Q2", msg
+	}
+	if msg := badInt32(nu.Target); msg != "" {
+		return "Target", msg
+	}
+	if f, msg := badParticle(&nu.Nucleon); msg != "" {
+		return "Nucleon." + f, msg
+	}
+	return "", ""
+}
