@@ -39,7 +39,7 @@ func damagePositions(t *testing.T, data []byte) []int {
 	var pos []int
 	for i := range data {
 		inside := int64(i) >= in.begin && int64(i) < in.end
-		if inside || !inside {
+		if (!inside && i%3 == 0) || (inside && i%101 == 0) {
 			pos = append(pos, i)
 		}
 	}

@@ -183,17 +183,12 @@ func (e *Event) Validate(nSensors int) error {
 			return fail(fmt.Sprintf("Truth.Tracks[%d].%s", i, field), msg)
 		}
 	}
-	counts := [...]struct {
-		name string
-		n    int
-	}{
-		{"Truth.Photons", t.Photons}, {"Truth.Photoelectrons", t.Photoelectrons}, {"Truth.DarkPE", t.DarkPE},
-		{"Truth.PEDirect", t.PEDirect}, {"Truth.PEScattered", t.PEScattered}, {"Truth.PEReflected", t.PEReflected},
-	}
-	for _, c := range counts {
-		if c.n < 0 {
-			return fail(c.name, fmt.Sprintf("%d must not be negative", c.n))
-		}
+	if f, msg := first(
+		complaint{"Truth.Photons", badCount(t.Photons)}, complaint{"Truth.Photoelectrons", badCount(t.Photoelectrons)},
+		complaint{"Truth.DarkPE", badCount(t.DarkPE)}, complaint{"Truth.PEDirect", badCount(t.PEDirect)},
+		complaint{"Truth.PEScattered", badCount(t.PEScattered)}, complaint{"Truth.PEReflected", badCount(t.PEReflected)},
+	); msg != "" {
+		return fail(f, msg)
 	}
 	if sum := t.PEDirect + t.PEScattered + t.PEReflected; sum != t.Photoelectrons {
 		return fail("Truth.Photoelectrons", fmt.Sprintf("%d differs from PEDirect+PEScattered+PEReflected = %d", t.Photoelectrons, sum))
@@ -220,18 +215,6 @@ func badFloat(v float64) string {
 	return ""
 }
 
-func badVector(v r3.Vector) (string, string) {
-	for _, c := range [...]struct {
-		name string
-		v    float64
-	}{{"X", v.X}, {"Y", v.Y}, {"Z", v.Z}} {
-		if msg := badFloat(c.v); msg != "" {
-			return c.name, msg
-		}
-	}
-	return "", ""
-}
-
 func badInt32(n int) string {
 	if n < math.MinInt32 || n > math.MaxInt32 {
 		return fmt.Sprintf("%d does not fit the file's 32-bit integer column", n)
@@ -246,73 +229,58 @@ func badLength(n int) string {
 	return ""
 }
 
-func badParticle(p *phys.Particle) (string, string) {
-	if msg := badInt32(p.PDG); msg != "" {
-		return "PDG", msg
+func badCount(n int) string {
+	if n < 0 {
+		return fmt.Sprintf("%d must not be negative", n)
 	}
-	if f, msg := badVector(p.Pos); msg != "" {
-		return "Pos." + f, msg
-	}
-	if f, msg := badVector(p.Dir); msg != "" {
-		return "Dir." + f, msg
-	}
-	if msg := badFloat(p.Time); msg != "" {
-		return "Time", msg
-	}
-	if msg := badFloat(p.Ekin); msg != "" {
-		return "Ekin", msg
-	}
-	if msg := badInt32(p.Parent); msg != "" {
-		return "Parent", msg
-	}
-	if msg := badInt32(p.Track); msg != "" {
-		return "Track", msg
+	return ""
+}
+
+// complaint is a field name and what is wrong with it ("" if nothing).
+type complaint struct{ field, msg string }
+
+// first returns the first complaint with a message.
+func first(cs ...complaint) (string, string) {
+	for _, c := range cs {
+		if c.msg != "" {
+			return c.field, c.msg
+		}
 	}
 	return "", ""
+}
+
+func badParticle(p *phys.Particle) (string, string) {
+	return first(
+		complaint{"PDG", badInt32(p.PDG)},
+		complaint{"Pos.X", badFloat(p.Pos.X)}, complaint{"Pos.Y", badFloat(p.Pos.Y)}, complaint{"Pos.Z", badFloat(p.Pos.Z)},
+		complaint{"Dir.X", badFloat(p.Dir.X)}, complaint{"Dir.Y", badFloat(p.Dir.Y)}, complaint{"Dir.Z", badFloat(p.Dir.Z)},
+		complaint{"Time", badFloat(p.Time)}, complaint{"Ekin", badFloat(p.Ekin)},
+		complaint{"Parent", badInt32(p.Parent)}, complaint{"Track", badInt32(p.Track)},
+	)
 }
 
 func badTrack(tr *Track) (string, string) {
-	if msg := badInt32(tr.PDG); msg != "" {
-		return "PDG", msg
-	}
-	for _, c := range [...]struct {
-		name string
-		v    float64
-	}{{"Length", tr.Length}, {"Range", tr.Range}, {"DecayTime", tr.DecayTime}, {"VisiblePhotons", tr.VisiblePhotons}} {
-		if msg := badFloat(c.v); msg != "" {
-			return c.name, msg
-		}
-	}
+	fate := ""
 	if !tr.Fate.valid() {
-		return "Fate", fmt.Sprintf("%d is not a known fate", int(tr.Fate))
+		fate = fmt.Sprintf("%d is not a known fate", int(tr.Fate))
 	}
-	if tr.Secondaries < 0 {
-		return "Secondaries", fmt.Sprintf("%d must not be negative", tr.Secondaries)
-	}
-	if msg := badInt32(tr.Secondaries); msg != "" {
-		return "Secondaries", msg
-	}
-	return "", ""
+	return first(
+		complaint{"PDG", badInt32(tr.PDG)},
+		complaint{"Length", badFloat(tr.Length)}, complaint{"Range", badFloat(tr.Range)},
+		complaint{"Fate", fate},
+		complaint{"DecayTime", badFloat(tr.DecayTime)}, complaint{"VisiblePhotons", badFloat(tr.VisiblePhotons)},
+		complaint{"Secondaries", badCount(tr.Secondaries)}, complaint{"Secondaries", badInt32(tr.Secondaries)},
+	)
 }
 
 func badNeutrino(nu *Neutrino) (string, string) {
-	if msg := badInt32(nu.PDG); msg != "" {
-		return "PDG", msg
+	if f, msg := first(
+		complaint{"PDG", badInt32(nu.PDG)}, complaint{"Energy", badFloat(nu.Energy)},
+		complaint{"Dir.X", badFloat(nu.Dir.X)}, complaint{"Dir.Y", badFloat(nu.Dir.Y)}, complaint{"Dir.Z", badFloat(nu.Dir.Z)},
+		complaint{"Q2", badFloat(nu.Q2)}, complaint{"Target", badInt32(nu.Target)},
+	); msg != "" {
+		return f, msg
 	}
-	if msg := badFloat(nu.Energy); msg != "" {
-		return "Energy", msg
-	}
-	if f, msg := badVector(nu.Dir); msg != "" {
-		return "Dir." + f, msg
-	}
-	if msg := badFloat(nu.Q2); msg != "" {
-		return "Q2", msg
-	}
-	if msg := badInt32(nu.Target); msg != "" {
-		return "Target", msg
-	}
-	if f, msg := badParticle(&nu.Nucleon); msg != "" {
-		return "Nucleon." + f, msg
-	}
-	return "", ""
+	f, msg := badParticle(&nu.Nucleon)
+	return "Nucleon." + f, msg
 }

@@ -92,25 +92,15 @@ func Merge(dst string, srcs ...string) (err error) {
 // run settings (other than the shard numbering and range) between the
 // first reader and the others.
 func checkShards(rs []*Reader) error {
-	var errs []error
 	a := rs[0]
-	var ad detectorRecord
-	ad.set(a.det)
-	var as sensorRecord
-	as.set(&a.model)
-	var ar runRecord
-	ar.set(&a.run)
+	ad, as, ar := descriptionColumns(a)
 	for _, b := range rs[1:] {
-		var bd detectorRecord
-		bd.set(b.det)
-		var bs sensorRecord
-		bs.set(&b.model)
-		var br runRecord
-		br.set(&b.run)
+		bd, bs, br := descriptionColumns(b)
+		var errs []error
 		for _, d := range [...]struct{ what, diff string }{
-			{"detector", firstDifference(ad.cols(), bd.cols())},
-			{"sensor model", firstDifference(as.cols(), bs.cols())},
-			{"run settings", firstDifference(ar.cols(), br.cols(), runRangeColumns...)},
+			{"detector", firstDifference(ad, bd)},
+			{"sensor model", firstDifference(as, bs)},
+			{"run settings", firstDifference(ar, br, runRangeColumns...)},
 		} {
 			if d.diff != "" {
 				errs = append(errs, fmt.Errorf("%s and %s differ in %s: %s", a.path, b.path, d.what, d.diff))
@@ -121,4 +111,16 @@ func checkShards(rs []*Reader) error {
 		}
 	}
 	return nil
+}
+
+// descriptionColumns returns the file-layout columns of r's detector,
+// sensor model and run settings, filled with their values.
+func descriptionColumns(r *Reader) (det, sensor, run []column) {
+	var dr detectorRecord
+	dr.set(r.det)
+	var sr sensorRecord
+	sr.set(&r.model)
+	var rr runRecord
+	rr.set(&r.run)
+	return dr.cols(), sr.cols(), rr.cols()
 }

@@ -105,14 +105,16 @@ func (p *particleArrays) particles() []phys.Particle {
 }
 
 func (p *particleArrays) lengthsAgree() bool {
-	n := int(p.N)
-	for _, s := range [...][]int32{p.PDG, p.Parent, p.Track} {
-		if len(s) != n {
-			return false
-		}
-	}
-	for _, s := range [...][]float64{p.X, p.Y, p.Z, p.DX, p.DY, p.DZ, p.T, p.E} {
-		if len(s) != n {
+	return allEqual(int(p.N), len(p.PDG), len(p.Parent), len(p.Track),
+		len(p.X), len(p.Y), len(p.Z), len(p.DX), len(p.DY), len(p.DZ), len(p.T), len(p.E))
+}
+
+// allEqual reports whether every length equals n (groot sizes the arrays
+// from their count branch; this guards the conversion below against a
+// reader that did not).
+func allEqual(n int, lengths ...int) bool {
+	for _, l := range lengths {
+		if l != n {
 			return false
 		}
 	}
@@ -220,13 +222,11 @@ func (r *eventRecord) event() (Event, error) {
 		return Event{}, fmt.Errorf("primary arrays disagree with n_primary = %d", r.Primaries.N)
 	}
 	nt := int(r.NTrack)
-	for _, l := range [...]int{len(r.TrackPDG), len(r.TrackFate), len(r.TrackSecondaries), len(r.TrackLength), len(r.TrackRange), len(r.TrackDecay), len(r.TrackVis)} {
-		if l != nt {
-			return Event{}, fmt.Errorf("track arrays disagree with n_track = %d", nt)
-		}
+	if !allEqual(nt, len(r.TrackPDG), len(r.TrackFate), len(r.TrackSecondaries), len(r.TrackLength), len(r.TrackRange), len(r.TrackDecay), len(r.TrackVis)) {
+		return Event{}, fmt.Errorf("track arrays disagree with n_track = %d", nt)
 	}
 	nh := int(r.NHit)
-	if len(r.HitSensor) != nh || len(r.HitTime) != nh || len(r.HitCharge) != nh {
+	if !allEqual(nh, len(r.HitSensor), len(r.HitTime), len(r.HitCharge)) {
 		return Event{}, fmt.Errorf("hit arrays disagree with n_hit = %d", nh)
 	}
 	e := Event{
@@ -313,10 +313,8 @@ func (r *detectorRecord) set(d *geom.Detector) {
 // stored surfaces against the positions.
 func (r *detectorRecord) detector() (*geom.Detector, error) {
 	n := int(r.N)
-	for _, l := range [...]int{len(r.X), len(r.Y), len(r.Z), len(r.DX), len(r.DY), len(r.DZ), len(r.Surface)} {
-		if l != n {
-			return nil, fmt.Errorf("sensor arrays disagree with n_sensor = %d", n)
-		}
+	if !allEqual(n, len(r.X), len(r.Y), len(r.Z), len(r.DX), len(r.DY), len(r.DZ), len(r.Surface)) {
+		return nil, fmt.Errorf("sensor arrays disagree with n_sensor = %d", n)
 	}
 	ss := make([]geom.Sensor, n)
 	for i := range ss {
