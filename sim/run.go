@@ -16,10 +16,11 @@ import (
 type RunOptions struct {
 	// First and Count: the run covers event numbers First .. First+Count-1.
 	First, Count uint64
-	// Shard and Shards split the run for a batch system: this run makes
-	// only the events whose number n has (n - First) mod Shards == Shard.
+	// Shard and Shards split the run for a batch system: the Count
+	// events are cut into Shards contiguous blocks as equal as possible,
+	// and this run makes block Shard (ShardRange gives its numbers).
 	// Shards 0 means 1. Every event has the same random stream as in the
-	// unsplit run, so merged shards equal the unsplit run.
+	// unsplit run, so the merged shards (event.Merge) equal the unsplit run.
 	Shard, Shards int
 	// Progress, when set, is called from Run's goroutine about every
 	// ProgressEvery (default 1 s) and once at the end.
@@ -36,24 +37,29 @@ type Progress struct {
 	Remaining   time.Duration // estimate at the current rate
 }
 
-// jobs returns the number of events this shard makes and the number of
-// its i-th event.
-func (o RunOptions) jobs() (n uint64, number func(i uint64) uint64, err error) {
+// ShardRange returns the first event number and the number of events of
+// the shard opt selects: block Shard of Shards equal contiguous blocks of
+// First .. First+Count-1 (the first Count mod Shards blocks are one event
+// longer).
+func (o RunOptions) ShardRange() (first, n uint64, err error) {
 	shards := o.Shards
 	if shards == 0 {
 		shards = 1
 	}
 	if shards < 0 || o.Shard < 0 || o.Shard >= shards {
-		return 0, nil, fmt.Errorf("sim: RunOptions.Shard = %d, Shards = %d: want 0 <= Shard < Shards", o.Shard, o.Shards)
+		return 0, 0, fmt.Errorf("sim: RunOptions.Shard = %d, Shards = %d: want 0 <= Shard < Shards", o.Shard, o.Shards)
 	}
 	if o.First+o.Count < o.First {
-		return 0, nil, fmt.Errorf("sim: RunOptions.First = %d + Count = %d overflows", o.First, o.Count)
+		return 0, 0, fmt.Errorf("sim: RunOptions.First = %d + Count = %d overflows", o.First, o.Count)
 	}
 	k, s := uint64(o.Shard), uint64(shards)
-	if o.Count > k {
-		n = (o.Count-k-1)/s + 1
+	base, extra := o.Count/s, o.Count%s
+	n = base
+	if k < extra {
+		n++
 	}
-	return n, func(i uint64) uint64 { return o.First + k + i*s }, nil
+	first = o.First + k*base + min(k, extra)
+	return first, n, nil
 }
 
 // NeutrinoTruth returns the neutrino part of an event's truth from the
@@ -92,7 +98,7 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 	if g == nil || out == nil {
 		return errors.New("sim: Run needs a generator and an output function")
 	}
-	n, number, err := opt.jobs()
+	first, n, err := opt.ShardRange()
 	if err != nil {
 		return err
 	}
@@ -130,7 +136,7 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 			defer wg.Done()
 			var prims []phys.Particle
 			for i := range jobs {
-				num := number(i)
+				num := first + i
 				rng := EventStream(s.cfg.Seed, num)
 				var r result
 				r.i = i
