@@ -273,8 +273,79 @@ func TestMuonVisibleLengthVsRange(t *testing.T) {
 	sd = math.Sqrt(sd)
 	// Segment lengths are chords of multiply-scattered steps, shorter than
 	// the path by a fraction of order theta0^2 per step (< 1e-3 here).
-	t.Logf("visible %.2f +- %.2f, want %.2f", mean, sd/math.Sqrt(n), want)
 	if math.Abs(mean-want) > 5*sd/math.Sqrt(n)+2e-3*want {
 		t.Errorf("visible track length %.2f +- %.2f cm, CSDA expects %.2f cm", mean, sd/math.Sqrt(n), want)
+	}
+}
+
+// meanLight sums the expected Cherenkov photons of every segment.
+type meanLight struct {
+	em    *cherenkov.Emitter
+	total float64
+}
+
+func (m *meanLight) Segment(s phys.Segment) {
+	n, _ := m.em.MeanPhotons(s)
+	m.total += n
+}
+func (m *meanLight) Secondary(phys.Particle)                  {}
+func (m *meanLight) Deposit(r3.Vector, float64, float64, int) {}
+
+func TestMuonLightStepAndCutIndependence(t *testing.T) {
+	// The expected Cherenkov light of a 1 GeV muon and all its descendants
+	// must not depend on the step limits, and only slightly on the delta-ray
+	// cut: delta rays between 0.3 and 1 MeV shine for a few mm at most, a
+	// fraction of a percent of the muon's own light (stated tolerance 1.5%;
+	// step limits 1%), each plus 4 standard errors of the difference of
+	// means.
+	w, err := optics.NewWater(optics.DefaultWaterConfig())
+	if err != nil {
+		t.Fatal(err)
+	}
+	emit, err := cherenkov.NewEmitter(w, 300, 600, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	light := func(cfg muon.Config, seed uint64) (mean, se float64) {
+		p, err := New(material.Water(), em.DefaultConfig(), cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		tr, err := NewTracker(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rng := rand.New(rand.NewPCG(seed, 9))
+		const n = 16
+		vals := make([]float64, n)
+		for i := range vals {
+			sink := &meanLight{em: emit}
+			if _, err := tr.Run([]phys.Particle{{PDG: phys.MuonMinus, Dir: r3.Vector{Z: 1}, Pos: r3.Vector{Z: -1200}, Ekin: 1000}}, geom.LargeTank(), rng, sink); err != nil {
+				t.Fatal(err)
+			}
+			vals[i] = sink.total
+			mean += sink.total / n
+		}
+		var v float64
+		for _, x := range vals {
+			v += (x - mean) * (x - mean) / (n - 1)
+		}
+		return mean, math.Sqrt(v / n)
+	}
+	base := muon.DefaultConfig()
+	fine := base
+	fine.MaxFracLoss, fine.MaxStep = 0.003, 1
+	lowCut := base
+	lowCut.DeltaCut = 0.3
+	m0, s0 := light(base, 1)
+	for _, c := range []struct {
+		name string
+		cfg  muon.Config
+		tol  float64
+	}{{"fine steps", fine, 0.01}, {"delta cut 0.3 MeV", lowCut, 0.015}} {
+		m, s := light(c.cfg, 2)
+		if d := math.Abs(m/m0 - 1); d > c.tol+4*math.Hypot(s/m, s0/m0) {
+			t.Errorf("%s: light %.0f +- %.0f, default %.0f +- %.0f (%.2f%%)", c.name, m, s, m0, s0, 100*(m/m0-1))
+		}
 	}
 }
