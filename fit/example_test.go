@@ -1,0 +1,46 @@
+package fit_test
+
+import (
+	"fmt"
+	"log"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// Fit a simulated 10 MeV electron in the demo tank.
+func Example() {
+	cfg, err := sim.DemoConfig(42)
+	if err != nil {
+		log.Fatal(err)
+	}
+	s, err := sim.New(cfg)
+	if err != nil {
+		log.Fatal(err)
+	}
+	start := r3.Vector{X: 100, Y: -50, Z: 200}
+	ev, err := s.Event(1, []phys.Particle{{PDG: phys.Electron, Pos: start, Dir: r3.Vector{X: 1}, Ekin: 10}})
+	if err != nil {
+		log.Fatal(err)
+	}
+	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	if err != nil {
+		log.Fatal(err)
+	}
+	r, err := f.Fit(ev.Hits)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println("status:", r.Status)
+	fmt.Println("vertex within 1 m:", r.Vertex.Sub(start).Norm() < 100)
+	fmt.Println("direction within 60 degrees:", r.Dir.Angle(r3.Vector{X: 1}).Degrees() < 60)
+	fmt.Println("energy within 5-15 MeV:", r.Energy > 5 && r.Energy < 15)
+	// Output:
+	// status: converged
+	// vertex within 1 m: true
+	// direction within 60 degrees: true
+	// energy within 5-15 MeV: true
+}

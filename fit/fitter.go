@@ -1,0 +1,219 @@
+package fit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sync"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
+)
+
+// Config describes the detector a Fitter reconstructs events of.
+type Config struct {
+	// Detector is the tank and its sensors (required, at least one sensor).
+	Detector *geom.Detector
+	// Sensor is the response of every sensor (required, validated).
+	Sensor pmt.Model
+	// Water is the water's optics (required).
+	Water *optics.Water
+	// Tables are the densities and the energy calibration. Nil means the
+	// embedded set made for the tank closest in size to Detector's.
+	Tables *Tables
+	// MaxIterations bounds the major iterations of each optimizer stage;
+	// 0 means 200.
+	MaxIterations int
+}
+
+// Fitter reconstructs low-energy events. It is built once by New, is
+// immutable afterwards and is safe for concurrent use by any number of
+// goroutines; each call to Fit takes its scratch space from an internal
+// pool.
+type Fitter struct {
+	det      *geom.Detector
+	sensor   pmt.Model
+	tables   *Tables
+	light    Light
+	vg       float64     // effective group velocity, cm/ns
+	pos, dir []r3.Vector // sensor positions and inward axes
+	// scaled holds the sensor positions divided by vg (ns).
+	scaled []r3.Vector
+
+	res       residualModel
+	selWindow float64 // ns, length of the hit-selection window
+	darkPerNs float64 // expected dark hits per ns in the whole detector
+
+	dirDensity         grid
+	promptLo, promptHi float64 // ns, prompt residual window
+	sigmaT             float64 // ns, prompt timing width used by the seed
+
+	coarse        []r3.Vector // coarse seed grid inside the sensor surface
+	coarseSpacing float64     // cm
+	fibonacci     []r3.Vector // direction seed set
+
+	nbStart, nb []int32 // neighbour lists for the occupancy correction
+	coverage    float64
+	// energySigma is the energy spread (MeV) at each calibration point.
+	energySigma []float64
+
+	maxIter int
+	pool    sync.Pool
+}
+
+// New builds a Fitter. Errors name the bad field.
+func New(cfg Config) (*Fitter, error) {
+	if cfg.Detector == nil {
+		return nil, errors.New("fit: Config.Detector is nil")
+	}
+	n := cfg.Detector.NumSensors()
+	if n == 0 {
+		return nil, errors.New("fit: Config.Detector has no sensors")
+	}
+	if err := cfg.Sensor.Validate(); err != nil {
+		return nil, fmt.Errorf("fit: Config.Sensor: %w", err)
+	}
+	if cfg.Water == nil {
+		return nil, errors.New("fit: Config.Water is nil")
+	}
+	if cfg.MaxIterations < 0 {
+		return nil, fmt.Errorf("fit: Config.MaxIterations = %d must not be negative", cfg.MaxIterations)
+	}
+	tank := cfg.Detector.Tank()
+	radius, half := tank.SensorRadius(), tank.SensorHalfHeight()
+	tables := cfg.Tables
+	if tables == nil {
+		var err error
+		if tables, err = closestEmbedded(radius, half); err != nil {
+			return nil, err
+		}
+	} else if err := tables.Validate(); err != nil {
+		return nil, fmt.Errorf("fit: Config.Tables: %w", err)
+	}
+	diag := math.Hypot(2*radius, 2*half)
+	light, err := NewLight(cfg.Water, &cfg.Sensor, diag)
+	if err != nil {
+		return nil, err
+	}
+	f := &Fitter{
+		det:     cfg.Detector,
+		sensor:  cfg.Sensor,
+		tables:  tables,
+		light:   light,
+		vg:      light.GroupVelocity,
+		maxIter: cfg.MaxIterations,
+	}
+	if f.maxIter == 0 {
+		f.maxIter = 200
+	}
+	f.pos = make([]r3.Vector, n)
+	f.dir = make([]r3.Vector, n)
+	f.scaled = make([]r3.Vector, n)
+	for i := range n {
+		s := cfg.Detector.Sensor(i)
+		f.pos[i], f.dir[i] = s.Pos, s.Dir
+		f.scaled[i] = s.Pos.Mul(1 / f.vg)
+	}
+
+	// Timing: the table's own spread is removed from the sensor's.
+	smear := math.Sqrt(math.Max(cfg.Sensor.TTS*cfg.Sensor.TTS-tables.TTS*tables.TTS, 0))
+	smear = math.Max(smear, minSmear)
+	signal := smearBins(tables.Residual, smear, gridStep)
+	f.sigmaT = math.Hypot(cfg.Sensor.TTS, 1)
+	// Every signal hit of a vertex inside the tank falls within the light
+	// crossing time of the tank plus the late tail of the residual table.
+	f.selWindow = diag/f.vg + math.Min(signal.hi(), 100)
+	f.res = newResidualModel(signal, f.selWindow)
+	f.darkPerNs = float64(n) * cfg.Sensor.DarkRate * 1e-9
+	f.promptLo = -3*f.sigmaT - 2
+	f.promptHi = 3*f.sigmaT + 8
+
+	f.dirDensity = directionGrid(tables.Direction)
+	f.coverage = cfg.Detector.Coverage()
+	if !(f.coverage > 0) {
+		return nil, fmt.Errorf("fit: Config.Detector coverage = %v must be positive", f.coverage)
+	}
+	f.energySigma = energySpreads(tables.Energy)
+	f.buildSeedGrid(radius, half)
+	f.fibonacci = fibonacciSphere(200)
+	f.buildNeighbours(math.Sqrt(tank.InnerArea() / float64(n)))
+	f.pool.New = func() any { return newScratch(n) }
+	return f, nil
+}
+
+// GroupVelocity returns the effective group velocity (cm/ns) the fitter
+// converts path lengths to times with.
+func (f *Fitter) GroupVelocity() float64 { return f.vg }
+
+// Tables returns the tables the fitter was built from (do not modify).
+func (f *Fitter) Tables() *Tables { return f.tables }
+
+// PromptWindow returns the time-residual window (ns) of the hits the
+// direction and energy estimates use.
+func (f *Fitter) PromptWindow() (lo, hi float64) { return f.promptLo, f.promptHi }
+
+// buildSeedGrid lays a cubic grid of points inside the sensor surface at
+// a spacing of a quarter of the larger of radius and half height.
+func (f *Fitter) buildSeedGrid(radius, half float64) {
+	s := math.Max(radius, half) / 4
+	f.coarseSpacing = s
+	nr := int(radius / s)
+	nz := int(half / s)
+	for iz := -nz; iz <= nz; iz++ {
+		for iy := -nr; iy <= nr; iy++ {
+			for ix := -nr; ix <= nr; ix++ {
+				p := r3.Vector{X: float64(ix) * s, Y: float64(iy) * s, Z: float64(iz) * s}
+				if math.Hypot(p.X, p.Y) < radius && math.Abs(p.Z) < half {
+					f.coarse = append(f.coarse, p)
+				}
+			}
+		}
+	}
+}
+
+// fibonacciSphere returns n nearly uniform unit vectors.
+func fibonacciSphere(n int) []r3.Vector {
+	out := make([]r3.Vector, n)
+	golden := math.Pi * (3 - math.Sqrt(5))
+	for i := range n {
+		z := 1 - (2*float64(i)+1)/float64(n)
+		rho := math.Sqrt(1 - z*z)
+		phi := golden * float64(i)
+		out[i] = r3.Vector{X: rho * math.Cos(phi), Y: rho * math.Sin(phi), Z: z}
+	}
+	return out
+}
+
+// buildNeighbours lists, for each sensor, the sensors within 1.6 times the
+// mean pitch, with a uniform hash grid (cell = radius).
+func (f *Fitter) buildNeighbours(pitch float64) {
+	rad := 2.5 * pitch
+	type key struct{ x, y, z int }
+	cell := func(p r3.Vector) key {
+		return key{int(math.Floor(p.X / rad)), int(math.Floor(p.Y / rad)), int(math.Floor(p.Z / rad))}
+	}
+	cells := map[key][]int32{}
+	for i, p := range f.pos {
+		k := cell(p)
+		cells[k] = append(cells[k], int32(i))
+	}
+	f.nbStart = make([]int32, len(f.pos)+1)
+	for i, p := range f.pos {
+		k := cell(p)
+		for dz := -1; dz <= 1; dz++ {
+			for dy := -1; dy <= 1; dy++ {
+				for dx := -1; dx <= 1; dx++ {
+					for _, j := range cells[key{k.x + dx, k.y + dy, k.z + dz}] {
+						if int(j) != i && f.pos[j].Sub(p).Norm() < rad {
+							f.nb = append(f.nb, j)
+						}
+					}
+				}
+			}
+		}
+		f.nbStart[i+1] = int32(len(f.nb))
+	}
+}

@@ -1,0 +1,244 @@
+package fit_test
+
+import (
+	"encoding/json"
+	"flag"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"sync"
+	"testing"
+
+	"github.com/conelight/conelight/fit/resolution"
+)
+
+// update rewrites the resolution baseline:
+//
+//	go test ./fit -run TestResolution -update
+var update = flag.Bool("update", false, "rewrite testdata/fit/resolution_demo.json from this run")
+
+const baselinePath = "../testdata/fit/resolution_demo.json"
+
+// The regression sample: electrons at 5, 10 and 20 MeV, uniform 1 m
+// inside the demo tank's sensor surface, isotropic, run seed 7.
+const (
+	regressionSeed   = 7
+	regressionEvents = 150
+)
+
+var regressionEnergies = []float64{5, 10, 20}
+
+var (
+	sampleOnce sync.Once
+	demoEvents map[float64][]fitted
+)
+
+func demoSample(t *testing.T) map[float64][]fitted {
+	t.Helper()
+	sampleOnce.Do(func() {
+		cfg, f := demoFitter(t)
+		demoEvents = map[float64][]fitted{}
+		for k, e := range regressionEnergies {
+			demoEvents[e] = study(t, cfg, f, e, 100, uint64(k)*regressionEvents, regressionEvents)
+		}
+	})
+	if demoEvents == nil {
+		t.Fatal("regression sample failed")
+	}
+	return demoEvents
+}
+
+// baselineEntry is one energy of the stored baseline.
+type baselineEntry struct {
+	Ekin             float64 `json:"ekin_mev"`
+	Triggered        int     `json:"triggered"`
+	Converged        int     `json:"converged"`
+	Vertex68         float64 `json:"vertex68_cm"`
+	Vertex68Err      float64 `json:"vertex68_err_cm"`
+	Direction68      float64 `json:"direction68_deg"`
+	Direction68Err   float64 `json:"direction68_err_deg"`
+	EnergyRes        float64 `json:"energy_resolution"`
+	EnergyResErr     float64 `json:"energy_resolution_err"`
+	EnergyBias       float64 `json:"energy_bias"`
+	EnergyBiasErr    float64 `json:"energy_bias_err"`
+	LongitudinalBias float64 `json:"longitudinal_bias_cm"`
+}
+
+type baseline struct {
+	Comment string          `json:"comment"`
+	Seed    int             `json:"seed"`
+	Events  int             `json:"events_per_energy"`
+	Entries []baselineEntry `json:"energies"`
+}
+
+// TestResolution guards the demo-tank resolution against a stored
+// baseline. A figure fails when it is worse than the baseline by more
+// than 3 standard errors of the difference of two independent samples
+// of this size, sqrt(2) times the current standard error (one-sided; the
+// errors come from order statistics for the 68% quantiles and from normal
+// theory for the Gaussian core, see package resolution).
+func TestResolution(t *testing.T) {
+	s := demoSample(t)
+	var cur baseline
+	cur.Comment = "fit resolution, demo tank, electrons 1 m inside the sensor surface; written by go test ./fit -run TestResolution -update"
+	cur.Seed, cur.Events = regressionSeed, regressionEvents
+	for _, e := range regressionEnergies {
+		sum, conv := summarize(t, s[e])
+		cur.Entries = append(cur.Entries, baselineEntry{
+			Ekin: e, Triggered: len(s[e]), Converged: conv,
+			Vertex68: sum.Vertex68.Value, Vertex68Err: sum.Vertex68.Err,
+			Direction68: sum.Direction68.Value, Direction68Err: sum.Direction68.Err,
+			EnergyRes: sum.EnergyResolution.Value, EnergyResErr: sum.EnergyResolution.Err,
+			EnergyBias: sum.EnergyBias.Value, EnergyBiasErr: sum.EnergyBias.Err,
+			LongitudinalBias: sum.LongitudinalBias.Value,
+		})
+		t.Logf("%4.0f MeV: %d/%d converged, vertex 68%% %v cm, direction 68%% %v deg, energy resolution %v, bias %v, longitudinal bias %v cm",
+			e, conv, len(s[e]), sum.Vertex68, sum.Direction68, sum.EnergyResolution, sum.EnergyBias, sum.LongitudinalBias)
+	}
+	if *update {
+		b, err := json.MarshalIndent(cur, "", "  ")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := writeAtomic(baselinePath, append(b, '\n')); err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("wrote %s", baselinePath)
+		return
+	}
+	raw, err := os.ReadFile(baselinePath)
+	if err != nil {
+		t.Fatalf("%v (write it with go test ./fit -run TestResolution -update)", err)
+	}
+	var base baseline
+	if err := json.Unmarshal(raw, &base); err != nil {
+		t.Fatal(err)
+	}
+	if len(base.Entries) != len(cur.Entries) {
+		t.Fatalf("baseline has %d energies, run has %d", len(base.Entries), len(cur.Entries))
+	}
+	const k = 3 * math.Sqrt2
+	for i, c := range cur.Entries {
+		b := base.Entries[i]
+		worse := func(name string, now, was, se float64) {
+			if now > was+k*se {
+				t.Errorf("%v MeV: %s %.4g worse than baseline %.4g by more than %.2g (3 sigma of the difference)", c.Ekin, name, now, was, k*se)
+			}
+		}
+		worse("vertex 68%", c.Vertex68, b.Vertex68, c.Vertex68Err)
+		worse("direction 68%", c.Direction68, b.Direction68, c.Direction68Err)
+		worse("energy resolution", c.EnergyRes, b.EnergyRes, c.EnergyResErr)
+		worse("|energy bias|", math.Abs(c.EnergyBias), math.Abs(b.EnergyBias), c.EnergyBiasErr)
+		// Converged fraction: binomial standard error.
+		fc, fb := float64(c.Converged)/float64(c.Triggered), float64(b.Converged)/float64(b.Triggered)
+		se := math.Sqrt(math.Max(fb*(1-fb), 1/float64(c.Triggered)) / float64(c.Triggered))
+		worse("failed fraction", 1-fc, 1-fb, se)
+	}
+}
+
+// TestPulls checks that the uncertainties describe the spread: the
+// Gaussian-core width of (fit - truth) / uncertainty, pooled over the
+// regression energies, is within 0.85-1.15 for each vertex coordinate and
+// for the energy (the requirement of the reconstruction's issue). The
+// standard error of each width, about 0.035 for 450 events, is well
+// inside that band.
+func TestPulls(t *testing.T) {
+	s := demoSample(t)
+	var px, py, pz, pe []float64
+	for _, e := range regressionEnergies {
+		var ex, ee []float64
+		for _, ev := range s[e] {
+			if !ev.res.Converged {
+				continue
+			}
+			d := ev.res.Vertex.Sub(ev.truth.Vertex)
+			px = append(px, d.X/ev.res.VertexErr.X)
+			py = append(py, d.Y/ev.res.VertexErr.Y)
+			pz = append(pz, d.Z/ev.res.VertexErr.Z)
+			pe = append(pe, (ev.res.Energy-e)/ev.res.EnergyErr)
+			ex = append(ex, d.X/ev.res.VertexErr.X, d.Y/ev.res.VertexErr.Y, d.Z/ev.res.VertexErr.Z)
+			ee = append(ee, (ev.res.Energy-e)/ev.res.EnergyErr)
+		}
+		gx, err := resolution.GaussianCore(ex, 2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ge, err := resolution.GaussianCore(ee, 2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%4.0f MeV: vertex pull width %v (x, y, z pooled), energy pull width %v", e, gx.Sigma, ge.Sigma)
+	}
+	for _, c := range []struct {
+		name  string
+		pulls []float64
+	}{{"x", px}, {"y", py}, {"z", pz}, {"energy", pe}} {
+		g, err := resolution.GaussianCore(c.pulls, 2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%s pull: mean %v width %v", c.name, g.Mean, g.Sigma)
+		if w := g.Sigma.Value; w < 0.85 || w > 1.15 {
+			t.Errorf("%s pull width %v outside 0.85-1.15", c.name, g.Sigma)
+		}
+	}
+}
+
+// TestCramerRao reports the achieved vertex resolution against the
+// per-event Cramer-Rao bound of the time likelihood: the Gaussian-core
+// width of (fit - truth) / bound over the coordinates is the ratio of the
+// achieved resolution to the bound. The bound holds for unbiased
+// estimators under the model, so the ratio must not fall below 1 by more
+// than statistics allow (4 standard errors of a width from n values,
+// 1/sqrt(2n) relative, large-sample normal theory).
+func TestCramerRao(t *testing.T) {
+	s := demoSample(t)
+	for _, e := range regressionEnergies {
+		var ratio []float64
+		for _, ev := range s[e] {
+			if !ev.res.Converged {
+				continue
+			}
+			d := ev.res.Vertex.Add(ev.res.Dir.Mul(ev.res.Shift)).Sub(ev.truth.Vertex)
+			c := ev.res.VertexCRB
+			ratio = append(ratio, d.X/c.X, d.Y/c.Y, d.Z/c.Z)
+		}
+		g, err := resolution.GaussianCore(ratio, 2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		n := float64(len(ratio))
+		t.Logf("%4.0f MeV: achieved / Cramer-Rao bound %v", e, g.Sigma)
+		if g.Sigma.Value < 1-4/math.Sqrt(2*n) {
+			t.Errorf("%v MeV: the fit beats the Cramer-Rao bound: ratio %v", e, g.Sigma)
+		}
+	}
+}
+
+// writeAtomic writes b to path through a temporary file and a rename.
+func writeAtomic(path string, b []byte) error {
+	f, err := os.CreateTemp(filepath.Dir(path), ".baseline-*")
+	if err != nil {
+		return err
+	}
+	if err := f.Chmod(0o644); err != nil {
+		f.Close()
+		os.Remove(f.Name())
+		return err
+	}
+	if _, err := f.Write(b); err != nil {
+		f.Close()
+		os.Remove(f.Name())
+		return err
+	}
+	if err := f.Close(); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	if err := os.Rename(f.Name(), path); err != nil {
+		os.Remove(f.Name())
+		return fmt.Errorf("baseline: %w", err)
+	}
+	return nil
+}

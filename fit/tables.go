@@ -1,0 +1,365 @@
+package fit
+
+import (
+	"bufio"
+	"bytes"
+	"embed"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+//go:generate go run ./internal/gentables -config demo -out data/demo.txt
+//go:generate go run ./internal/gentables -config large -out data/large.txt
+
+//go:embed data/*.txt
+var embeddedTables embed.FS
+
+// Bin is one bin of a tabulated density: the interval [Lo, Hi) and the
+// probability density (per unit of the tabulated variable) inside it.
+type Bin struct {
+	Lo, Hi, Density float64
+}
+
+// CalibrationPoint is one point of the energy calibration: at kinetic
+// energy Ekin (MeV) the effective hit count of the fitted events has the
+// Gaussian-core mean Mean and width Sigma, and the fitted vertex lies on
+// average Shift cm ahead of the track start along the fitted direction
+// (the light of a track is emitted along it), measured on Events events.
+type CalibrationPoint struct {
+	Ekin, Mean, Sigma, Shift float64
+	Events                   int
+}
+
+// Tables holds the densities and the calibration a Fitter is built from.
+// They come from the simulator (see the package documentation for the
+// regeneration command) but are plain data: users may fill them from
+// their own calibration.
+type Tables struct {
+	// Name identifies the table set (e.g. "demo", "large").
+	Name string
+	// TankRadius and TankHalfHeight (cm) are the sensor-surface size of the
+	// detector the tables were made for; New picks the embedded set whose
+	// size is closest to the detector's.
+	TankRadius, TankHalfHeight float64
+	// TTS (ns, Gaussian sigma) is the transit-time spread the residual
+	// table already contains (0 for the intrinsic table); New convolves it
+	// with the rest of the sensor's TTS.
+	TTS float64
+	// Residual is the time-residual density (per ns) of signal hits at the
+	// true vertex and time, without dark noise: the prompt peak from the
+	// track extent and light dispersion, and the late tail from scattering
+	// and reflection. Bins ordered and contiguous.
+	Residual []Bin
+	// Direction is the density (per unit cosine) of the cosine of the angle
+	// between the track direction and the vertex-to-hit vector for prompt
+	// signal hits, over [-1, 1].
+	Direction []Bin
+	// Energy is the calibration of the effective hit count against kinetic
+	// energy, ordered by increasing Ekin.
+	Energy []CalibrationPoint
+	// Meta holds free-form provenance (generator settings, event counts).
+	Meta map[string]string
+}
+
+// EmbeddedTables returns the table set embedded in the package under name
+// ("demo" for the demo tank with medium sensors, "large" for the 40 m
+// class tank with large sensors).
+func EmbeddedTables(name string) (*Tables, error) {
+	b, err := embeddedTables.ReadFile("data/" + name + ".txt")
+	if err != nil {
+		return nil, fmt.Errorf("fit: no embedded table set %q (have %s)", name, strings.Join(EmbeddedTableNames(), ", "))
+	}
+	return ReadTables(bytes.NewReader(b))
+}
+
+// EmbeddedTableNames lists the embedded table sets.
+func EmbeddedTableNames() []string {
+	ents, _ := embeddedTables.ReadDir("data")
+	var names []string
+	for _, e := range ents {
+		names = append(names, strings.TrimSuffix(e.Name(), ".txt"))
+	}
+	sort.Strings(names)
+	return names
+}
+
+// closestEmbedded returns the embedded table set whose tank size is
+// closest (in log of radius and half height) to the given one.
+func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
+	var best *Tables
+	bestD := math.Inf(1)
+	for _, name := range EmbeddedTableNames() {
+		t, err := EmbeddedTables(name)
+		if err != nil {
+			return nil, err
+		}
+		d := math.Abs(math.Log(radius/t.TankRadius)) + math.Abs(math.Log(halfHeight/t.TankHalfHeight))
+		if d < bestD {
+			best, bestD = t, d
+		}
+	}
+	if best == nil {
+		return nil, errors.New("fit: no embedded tables")
+	}
+	return best, nil
+}
+
+// Validate checks the tables: finite non-negative densities on ordered,
+// contiguous bins, a direction table inside [-1, 1], and a calibration with
+// increasing energy and mean.
+func (t *Tables) Validate() error {
+	if t == nil {
+		return errors.New("fit: Tables is nil")
+	}
+	if !(t.TankRadius > 0 && t.TankHalfHeight > 0) || math.IsInf(t.TankRadius, 0) || math.IsInf(t.TankHalfHeight, 0) {
+		return fmt.Errorf("fit: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
+	}
+	if !(t.TTS >= 0) || math.IsInf(t.TTS, 0) {
+		return fmt.Errorf("fit: Tables.TTS = %v must be non-negative and finite", t.TTS)
+	}
+	if err := validateBins("Residual", t.Residual, math.Inf(-1), math.Inf(1)); err != nil {
+		return err
+	}
+	if err := validateBins("Direction", t.Direction, -1, 1); err != nil {
+		return err
+	}
+	if len(t.Energy) < 2 {
+		return fmt.Errorf("fit: Tables.Energy has %d points, need at least 2", len(t.Energy))
+	}
+	for i, p := range t.Energy {
+		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) {
+			return fmt.Errorf("fit: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma and a finite Shift", i, p)
+		}
+		if i > 0 && !(p.Ekin > t.Energy[i-1].Ekin && p.Mean > t.Energy[i-1].Mean) {
+			return fmt.Errorf("fit: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
+		}
+	}
+	return nil
+}
+
+func validateBins(name string, bins []Bin, lo, hi float64) error {
+	if len(bins) < 2 {
+		return fmt.Errorf("fit: Tables.%s has %d bins, need at least 2", name, len(bins))
+	}
+	sum := 0.0
+	for i, b := range bins {
+		if !(b.Hi > b.Lo) || math.IsInf(b.Lo, 0) || math.IsInf(b.Hi, 0) || !(b.Density >= 0) || math.IsInf(b.Density, 0) {
+			return fmt.Errorf("fit: Tables.%s[%d] = %+v must have finite Lo < Hi and a finite non-negative Density", name, i, b)
+		}
+		if i > 0 && b.Lo != bins[i-1].Hi {
+			return fmt.Errorf("fit: Tables.%s[%d].Lo = %v does not continue bin %d (Hi = %v)", name, i, b.Lo, i-1, bins[i-1].Hi)
+		}
+		if b.Lo < lo-1e-12 || b.Hi > hi+1e-12 {
+			return fmt.Errorf("fit: Tables.%s[%d] = [%v, %v) outside [%v, %v]", name, i, b.Lo, b.Hi, lo, hi)
+		}
+		sum += b.Density * (b.Hi - b.Lo)
+	}
+	if !(sum > 0) {
+		return fmt.Errorf("fit: Tables.%s has zero integral", name)
+	}
+	return nil
+}
+
+// The table file format (our own): UTF-8 text, '#' starts a comment line.
+//
+//	name <name>
+//	tank <sensor radius cm> <sensor half height cm>
+//	tts <ns>
+//	meta <key> <value...>
+//	residual <n>          followed by n lines "lo hi density" (ns, 1/ns)
+//	direction <n>         followed by n lines "lo hi density" (cosine)
+//	energy <n>            followed by n lines "ekin mean sigma shift events"
+
+// ReadTables parses a table file.
+func ReadTables(r io.Reader) (*Tables, error) {
+	t := &Tables{Meta: map[string]string{}}
+	sc := bufio.NewScanner(r)
+	line := 0
+	next := func() ([]string, bool) {
+		for sc.Scan() {
+			line++
+			s := strings.TrimSpace(sc.Text())
+			if s == "" || strings.HasPrefix(s, "#") {
+				continue
+			}
+			return strings.Fields(s), true
+		}
+		return nil, false
+	}
+	parse := func(f []string, n int) ([]float64, error) {
+		if len(f) != n {
+			return nil, fmt.Errorf("fit: table line %d: want %d fields, have %d", line, n, len(f))
+		}
+		v := make([]float64, n)
+		for i, s := range f {
+			x, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				return nil, fmt.Errorf("fit: table line %d: %v", line, err)
+			}
+			v[i] = x
+		}
+		return v, nil
+	}
+	readBins := func(n int) ([]Bin, error) {
+		bins := make([]Bin, 0, n)
+		for range n {
+			f, ok := next()
+			if !ok {
+				return nil, fmt.Errorf("fit: table ends inside a section at line %d", line)
+			}
+			v, err := parse(f, 3)
+			if err != nil {
+				return nil, err
+			}
+			bins = append(bins, Bin{v[0], v[1], v[2]})
+		}
+		return bins, nil
+	}
+	for {
+		f, ok := next()
+		if !ok {
+			break
+		}
+		count := func() (int, error) {
+			if len(f) != 2 {
+				return 0, fmt.Errorf("fit: table line %d: %q wants a count", line, f[0])
+			}
+			n, err := strconv.Atoi(f[1])
+			if err != nil || n < 0 || n > 1<<20 {
+				return 0, fmt.Errorf("fit: table line %d: bad count %q", line, f[1])
+			}
+			return n, nil
+		}
+		switch f[0] {
+		case "name":
+			if len(f) != 2 {
+				return nil, fmt.Errorf("fit: table line %d: name wants one word", line)
+			}
+			t.Name = f[1]
+		case "tank":
+			v, err := parse(f[1:], 2)
+			if err != nil {
+				return nil, err
+			}
+			t.TankRadius, t.TankHalfHeight = v[0], v[1]
+		case "tts":
+			v, err := parse(f[1:], 1)
+			if err != nil {
+				return nil, err
+			}
+			t.TTS = v[0]
+		case "meta":
+			if len(f) < 3 {
+				return nil, fmt.Errorf("fit: table line %d: meta wants a key and a value", line)
+			}
+			t.Meta[f[1]] = strings.Join(f[2:], " ")
+		case "residual", "direction":
+			n, err := count()
+			if err != nil {
+				return nil, err
+			}
+			bins, err := readBins(n)
+			if err != nil {
+				return nil, err
+			}
+			if f[0] == "residual" {
+				t.Residual = bins
+			} else {
+				t.Direction = bins
+			}
+		case "energy":
+			n, err := count()
+			if err != nil {
+				return nil, err
+			}
+			for range n {
+				g, ok := next()
+				if !ok {
+					return nil, fmt.Errorf("fit: table ends inside the energy section at line %d", line)
+				}
+				v, err := parse(g, 5)
+				if err != nil {
+					return nil, err
+				}
+				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], int(v[4])})
+			}
+		default:
+			return nil, fmt.Errorf("fit: table line %d: unknown keyword %q", line, f[0])
+		}
+	}
+	if err := sc.Err(); err != nil {
+		return nil, fmt.Errorf("fit: reading tables: %w", err)
+	}
+	if err := t.Validate(); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+// WriteTables writes t in the format ReadTables reads.
+func WriteTables(w io.Writer, t *Tables) error {
+	if err := t.Validate(); err != nil {
+		return err
+	}
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "# conelight fit tables (format: see fit.ReadTables)\n")
+	fmt.Fprintf(bw, "name %s\ntank %g %g\ntts %g\n", t.Name, t.TankRadius, t.TankHalfHeight, t.TTS)
+	keys := make([]string, 0, len(t.Meta))
+	for k := range t.Meta {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		fmt.Fprintf(bw, "meta %s %s\n", k, t.Meta[k])
+	}
+	for _, sec := range []struct {
+		name string
+		bins []Bin
+	}{{"residual", t.Residual}, {"direction", t.Direction}} {
+		fmt.Fprintf(bw, "%s %d\n", sec.name, len(sec.bins))
+		for _, b := range sec.bins {
+			fmt.Fprintf(bw, "%g %g %.6g\n", b.Lo, b.Hi, b.Density)
+		}
+	}
+	fmt.Fprintf(bw, "energy %d\n", len(t.Energy))
+	for _, p := range t.Energy {
+		fmt.Fprintf(bw, "%g %.6g %.6g %.4g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
+	}
+	return bw.Flush()
+}
+
+// SaveTables writes t to path atomically (temporary file in the same
+// directory, then rename).
+func SaveTables(path string, t *Tables) (err error) {
+	f, err := os.CreateTemp(filepath.Dir(path), ".tables-*")
+	if err != nil {
+		return fmt.Errorf("fit: %w", err)
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(f.Name())
+		}
+	}()
+	if err = WriteTables(f, t); err != nil {
+		return err
+	}
+	// CreateTemp makes the file private; a table is a source file.
+	if err = f.Chmod(0o644); err != nil {
+		return fmt.Errorf("fit: %w", err)
+	}
+	if err = f.Close(); err != nil {
+		return fmt.Errorf("fit: %w", err)
+	}
+	if err = os.Rename(f.Name(), path); err != nil {
+		return fmt.Errorf("fit: %w", err)
+	}
+	return nil
+}
