@@ -123,17 +123,33 @@ func readSensorCSV(r io.Reader, name string) (*Detector, error) {
 		return nil, fmt.Errorf("geom: %s line %d: %w", name, line+1, err)
 	}
 	if !header {
-		return nil, fmt.Errorf("geom: %s: no header row %q", name, csvHeader)
+		return nil, lineErr(line+1, "end of input before the header row %q", csvHeader)
 	}
 	t := Tank{Radius: values["tank_radius"], Height: values["tank_height"], SensorOffset: values["sensor_offset"]}
 	d, bad, err := newDetector(t, values["cathode_diameter"], sensors)
 	if err != nil {
+		at := seen[directiveAt(t, values["cathode_diameter"])]
 		if bad >= 0 {
-			return nil, fmt.Errorf("geom: %s line %d: %s", name, sensorLno[bad], strings.TrimPrefix(err.Error(), "geom: "))
+			at = sensorLno[bad]
 		}
-		return nil, fmt.Errorf("geom: %s: %w", name, err)
+		return nil, lineErr(at, "%s", strings.TrimPrefix(err.Error(), "geom: "))
 	}
 	return d, nil
+}
+
+// directiveAt names the directive a tank or cathode-diameter error from
+// newDetector is about, following the order of Tank.Validate and
+// checkDiameter, so that the reader can give its line.
+func directiveAt(t Tank, diameter float64) string {
+	switch {
+	case !positiveFinite(t.Radius):
+		return "tank_radius"
+	case !positiveFinite(t.Height):
+		return "tank_height"
+	case t.Validate() != nil:
+		return "sensor_offset"
+	}
+	return "cathode_diameter"
 }
 
 // WriteSensorCSV writes d in the format described in the package

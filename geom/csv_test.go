@@ -68,7 +68,7 @@ func TestSensorCSVErrors(t *testing.T) {
 		{"off the surface", head + "500,0,0,-1,0,0\n400,0,0,-1,0,0\n", "line 9: sensor 1: Pos = (400, 0, 0)"},
 		{"zero direction", head + "500,0,0,0,0,0\n", "line 8: sensor 0: Dir = (0, 0, 0)"},
 		{"overlap", head + "500,0,0,-1,0,0\n# gap\n500,0,10,-1,0,0\n", "line 10: sensors 0 and 1 overlap"},
-		{"bad tank", strings.Replace(head, "@tank_radius 560", "@tank_radius -560", 1), "geom: sensor CSV: geom: Tank.Radius = -560"},
+		{"bad tank", strings.Replace(head, "@tank_radius 560", "@tank_radius -560", 1), "geom: sensor CSV line 3: Tank.Radius = -560"},
 		{"directive value", strings.Replace(head, "@tank_height 1160", "@tank_height tall", 1), `line 4: directive @tank_height: "tall" is not a number`},
 		{"unknown directive", strings.Replace(head, "# demo", "@colour blue", 1), "line 1: unknown directive @colour"},
 		{"repeated directive", strings.Replace(head, "# demo", "@cathode_diameter 20", 1), "line 6: directive @cathode_diameter repeats line 1"},
@@ -77,7 +77,11 @@ func TestSensorCSVErrors(t *testing.T) {
 		{"missing format", strings.Replace(head, "@format conelight-sensors 1\n", "", 1), "line 6: missing @format"},
 		{"bad header", strings.Replace(head, "dx,dy,dz", "u,v,w", 1), `line 7: header row "x,y,z,u,v,w"`},
 		{"directive after header", head + "@tank_radius 3\n", "line 8: directive"},
-		{"empty", "", "no header row"},
+		{"empty", "", "line 1: end of input before the header row"},
+		{"bad offset", strings.Replace(head, "@sensor_offset 60", "@sensor_offset NaN", 1), "line 5: Tank.SensorOffset = NaN"},
+		{"offset too deep", strings.Replace(head, "@sensor_offset 60", "@sensor_offset 600", 1), "line 5: Tank.SensorOffset = 600 leaves no volume"},
+		{"bad height", strings.Replace(head, "@tank_height 1160", "@tank_height +Inf", 1), "line 4: Tank.Height = +Inf"},
+		{"bad diameter", strings.Replace(head, "@cathode_diameter 50", "@cathode_diameter 0", 1), "line 6: cathode diameter = 0"},
 	} {
 		_, err := ReadSensorCSV(strings.NewReader(tc.text))
 		checkErr(t, tc.name, err, tc.want)

@@ -44,10 +44,24 @@ func clampIndex(x float64, n int) int {
 // at any coverage; for sparse sensors they are widened to keep the number of
 // cells within 8n+64, so memory stays proportional to the sensor count.
 func newGrid(u0, lu, v0, lv float64, n int, diameter float64) grid {
-	cell := math.Max(diameter, math.Sqrt(lu*lv/float64(8*n+64)))
-	nu := max(1, int(lu/cell))
-	nv := max(1, int(lv/cell))
+	limit := float64(8*n + 64)
+	cell := math.Max(diameter, math.Sqrt(lu*lv/limit))
+	// For a rectangle much longer than wide the short side holds less than
+	// one square cell; the cells are then stretched along the long side so
+	// that the count still stays within the limit (a long thin tank would
+	// otherwise ask for billions of cells).
+	nu := cellCount(lu/cell, limit)
+	nv := cellCount(lv/cell, limit/float64(nu))
 	return grid{nu: nu, nv: nv, u0: u0, v0: v0, su: float64(nu) / lu, sv: float64(nv) / lv}
+}
+
+// cellCount is the number of cells, at least 1 and at most limit, into which
+// x cell widths are cut; NaN (from an infinite extent) gives 1.
+func cellCount(x, limit float64) int {
+	if !(x >= 1) || !(limit >= 1) {
+		return 1
+	}
+	return int(math.Min(math.Floor(x), math.Floor(limit)))
 }
 
 // fill lists each entry in every cell its bounding box, half widths hu and

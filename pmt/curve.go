@@ -55,10 +55,18 @@ func NewCurve(xs, ys []float64) (Curve, error) {
 			return Curve{}, fmt.Errorf("pmt: Curve x[%d] = %v must be greater than x[%d] = %v", i, x, i-1, xs[i-1])
 		}
 	}
+	// The interpolation takes differences of neighbouring values: they
+	// must be finite too, or At would return NaN or Inf between them.
+	if span := xs[len(xs)-1] - xs[0]; math.IsInf(span, 0) {
+		return Curve{}, fmt.Errorf("pmt: Curve range [%v, %v] is too wide: its length overflows", xs[0], xs[len(xs)-1])
+	}
 	maxY := math.Inf(-1)
 	for i, y := range ys {
 		if math.IsNaN(y) || math.IsInf(y, 0) {
 			return Curve{}, fmt.Errorf("pmt: Curve y[%d] = %v must be finite", i, y)
+		}
+		if i > 0 && math.IsInf(y-ys[i-1], 0) {
+			return Curve{}, fmt.Errorf("pmt: Curve y[%d] - y[%d] = %v - %v overflows", i, i-1, y, ys[i-1])
 		}
 		maxY = math.Max(maxY, y)
 	}
@@ -116,7 +124,13 @@ func (c Curve) At(x float64) float64 {
 	}
 	x0, x1 := c.xs[i], c.xs[i+1]
 	y0, y1 := c.ys[i], c.ys[i+1]
-	return y0 + (y1-y0)*(x-x0)/(x1-x0)
+	v := y0 + (y1-y0)*(x-x0)/(x1-x0)
+	if v-v != 0 {
+		// (y1-y0)*(x-x0) overflowed for a table of huge values; the
+		// fraction first cannot (it lies in [0, 1]).
+		v = y0 + (y1-y0)*((x-x0)/(x1-x0))
+	}
+	return v
 }
 
 // Max returns the largest tabulated y, which for linear interpolation is

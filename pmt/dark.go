@@ -22,6 +22,8 @@ const maxDarkMean = 1e8
 // leave dst unchanged.
 func (m *Model) AddDark(dst []Photoelectron, nSensors int, t0, t1 float64, rng *rand.Rand) ([]Photoelectron, error) {
 	switch {
+	case m == nil:
+		return dst, errors.New("pmt: AddDark on a nil *Model")
 	case nSensors < 0:
 		return dst, fmt.Errorf("pmt: AddDark nSensors = %d must be non-negative", nSensors)
 	case math.IsNaN(t0) || math.IsInf(t0, 0):
@@ -30,6 +32,8 @@ func (m *Model) AddDark(dst []Photoelectron, nSensors int, t0, t1 float64, rng *
 		return dst, fmt.Errorf("pmt: AddDark t1 = %v must be finite", t1)
 	case t1 < t0:
 		return dst, fmt.Errorf("pmt: AddDark t1 = %v must not be before t0 = %v", t1, t0)
+	case math.IsInf(t1-t0, 0):
+		return dst, fmt.Errorf("pmt: AddDark t1-t0 = %v - %v overflows", t1, t0)
 	case !(m.DarkRate >= 0) || math.IsInf(m.DarkRate, 0):
 		return dst, fmt.Errorf("pmt: Model.DarkRate = %v must be non-negative and finite (Hz)", m.DarkRate)
 	case rng == nil:

@@ -103,6 +103,9 @@ func (m *Model) Digitize(pes []Photoelectron, nSensors int, rng *rand.Rand, dst 
 // error, naming the photoelectron, is returned for a sensor index outside
 // [0, nSensors) or a non-finite time; dst is then returned unchanged.
 func (d *Digitizer) Digitize(pes []Photoelectron, nSensors int, rng *rand.Rand, dst []Hit) ([]Hit, error) {
+	if d == nil {
+		return dst, errors.New("pmt: Digitize on a nil *Digitizer (build it with NewDigitizer)")
+	}
 	if nSensors < 0 || nSensors > math.MaxInt32 {
 		return dst, fmt.Errorf("pmt: Digitize nSensors = %d must be in [0, %d]", nSensors, math.MaxInt32)
 	}
@@ -156,8 +159,11 @@ func (d *Digitizer) Digitize(pes []Photoelectron, nSensors int, rng *rand.Rand, 
 		for i := 0; i < len(group); {
 			t0 := group[i]
 			gateEnd := t0 + m.IntegrationWindow
-			var q float64
-			for ; i < len(group) && group[i] < gateEnd; i++ {
+			// The opening photoelectron is always in its gate, even where
+			// t0 + IntegrationWindow rounds to t0 (|t0| above about 2^53
+			// windows), so every gate consumes at least one.
+			q := m.SPE.Sample(rng)
+			for i++; i < len(group) && group[i] < gateEnd; i++ {
 				q += m.SPE.Sample(rng)
 			}
 			if q < m.Threshold {

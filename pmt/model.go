@@ -59,6 +59,9 @@ type Model struct {
 // Validate checks every field and returns all problems found, each naming
 // the field and its value, or nil.
 func (m *Model) Validate() error {
+	if m == nil {
+		return errors.New("pmt: Model is nil")
+	}
 	var errs []error
 	bad := func(field string, v float64, want string) {
 		errs = append(errs, fmt.Errorf("pmt: Model.%s = %v %s", field, v, want))
