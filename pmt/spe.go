@@ -2,6 +2,7 @@ package pmt
 
 import (
 	"fmt"
+	"gonum.org/v1/gonum/stat/distuv"
 	"math"
 	"math/rand/v2"
 
@@ -87,23 +88,8 @@ func (s SPE) Sample(rng *rand.Rand) float64 {
 	return w2 * gammaUnitScale(1/w2, rng)
 }
 
-// gammaUnitScale draws from the gamma distribution of shape k >= 1 and
-// scale 1 by the method of Marsaglia and Tsang (ACM Trans. Math. Softw. 26
-// (2000) 363). SPE.Width <= 1 guarantees k >= 1.
+// gammaUnitScale draws from the gamma distribution of shape k and scale 1
+// (gonum's distuv.Gamma, rate Beta = 1).
 func gammaUnitScale(k float64, rng *rand.Rand) float64 {
-	d := k - 1.0/3
-	c := 1 / math.Sqrt(9*d)
-	for {
-		x := rng.NormFloat64()
-		v := 1 + c*x
-		if v <= 0 {
-			continue
-		}
-		v = v * v * v
-		u := rng.Float64()
-		x2 := x * x
-		if u < 1-0.0331*x2*x2 || math.Log(u) < 0.5*x2+d*(1-v+math.Log(v)) {
-			return d * v
-		}
-	}
+	return distuv.Gamma{Alpha: k, Beta: 1, Src: rng}.Rand()
 }

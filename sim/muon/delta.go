@@ -1,6 +1,7 @@
 package muon
 
 import (
+	"gonum.org/v1/gonum/stat/distuv"
 	"math"
 	"math/rand/v2"
 
@@ -51,29 +52,9 @@ func emitDelta(k kinematics, dir r3.Vector, tcut float64, rng *rand.Rand) (t flo
 }
 
 // sampleGamma draws from the Gamma distribution of shape a > 0 and unit
-// scale (Marsaglia and Tsang, ACM Trans. Math. Softw. 26 (2000) 363; for
-// a < 1 the boost Gamma(a) = Gamma(a+1) U^(1/a) from the same paper).
+// scale (gonum's distuv.Gamma, rate Beta = 1).
 func sampleGamma(a float64, rng *rand.Rand) float64 {
-	boost := 1.0
-	if a < 1 {
-		boost = math.Pow(rng.Float64(), 1/a)
-		a++
-	}
-	d := a - 1./3
-	c := 1 / math.Sqrt(9*d)
-	for {
-		x := rng.NormFloat64()
-		v := 1 + c*x
-		if v <= 0 {
-			continue
-		}
-		v = v * v * v
-		u := rng.Float64()
-		x2 := x * x
-		if u < 1-0.0331*x2*x2 || math.Log(u) < 0.5*x2+d*(1-v+math.Log(v)) {
-			return boost * d * v
-		}
-	}
+	return distuv.Gamma{Alpha: a, Beta: 1, Src: rng}.Rand()
 }
 
 // bohrVariance returns the variance (MeV^2) of the loss to collisions
