@@ -86,6 +86,9 @@ func NewCurve(xs, ys []float64) (Curve, error) {
 	seg := 0
 	for k := range c.cell {
 		left := xs[0] + float64(k)*span/float64(nCell)
+		if math.IsInf(left, 0) { // k*span overflowed: a range near MaxFloat64 wide
+			left = xs[0] + span*(float64(k)/float64(nCell))
+		}
 		for seg < n-2 && xs[seg+1] <= left {
 			seg++
 		}
@@ -122,15 +125,22 @@ func (c Curve) At(x float64) float64 {
 	for i < n-2 && x > c.xs[i+1] {
 		i++
 	}
+	// Rounding of the cell edges can put x an ulp before its cell's first
+	// segment when a knot lies on the edge; step back so that the segment
+	// always holds x.
+	for i > 0 && x < c.xs[i] {
+		i--
+	}
 	x0, x1 := c.xs[i], c.xs[i+1]
 	y0, y1 := c.ys[i], c.ys[i+1]
-	v := y0 + (y1-y0)*(x-x0)/(x1-x0)
-	if v-v != 0 {
-		// (y1-y0)*(x-x0) overflowed for a table of huge values; the
-		// fraction first cannot (it lies in [0, 1]).
-		v = y0 + (y1-y0)*((x-x0)/(x1-x0))
+	d := (y1 - y0) * (x - x0)
+	if d-d != 0 || math.Abs(d) < 0x1p-1022 {
+		// The product overflowed or fell below the normal range (tables
+		// of extreme values, or d = 0, where both forms agree): take the
+		// fraction first, which lies in [0, 1] and cannot overflow.
+		return y0 + (y1-y0)*((x-x0)/(x1-x0))
 	}
-	return v
+	return y0 + d/(x1-x0)
 }
 
 // Max returns the largest tabulated y, which for linear interpolation is

@@ -251,6 +251,13 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 	} else {
 		ev.Hits = append([]pmt.Hit(nil), w.hits...)
 	}
+	// The transport codes check the primaries they follow; this also
+	// catches an untracked primary (copied to the truth unfollowed) with a
+	// non-finite field, so that no event leaves here that a file would
+	// refuse.
+	if err := ev.Validate(s.cfg.Detector.NumSensors()); err != nil {
+		return nil, fmt.Errorf("sim: %w", err)
+	}
 	return ev, nil
 }
 

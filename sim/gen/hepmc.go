@@ -243,14 +243,20 @@ func (h *HepMC) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]
 		return dst, Info{}, fmt.Errorf("gen: %s: event %d requested, the file has %d", h.name, number, len(h.events))
 	}
 	ev := h.events[number]
+	fail := func(err error) ([]phys.Particle, Info, error) {
+		return dst[:0], Info{}, fmt.Errorf("gen: %s event %d (line %d): %w", h.name, number, h.lineOf(ev.off), err)
+	}
+	if rng == nil && h.opts.Vertex.set() {
+		return fail(errors.New("rng is nil and HepMCOptions.Vertex needs it"))
+	}
 	buf := make([]byte, ev.n)
 	if n, err := h.r.ReadAt(buf, ev.off); n < len(buf) {
-		return dst, Info{}, fmt.Errorf("gen: %s event %d: %w", h.name, number, err)
+		return fail(err)
 	}
 	format := h.format[ev.listing]
 	evt, err := decodeHepMC(format, buf)
 	if err != nil {
-		return dst, Info{}, fmt.Errorf("gen: %s event %d: %w", h.name, number, err)
+		return fail(err)
 	}
 	// Units: go-hep reads the U line of IO_GenEvent; without one (or in
 	// the older listings) HepMC2's defaults GeV and mm hold.
@@ -265,9 +271,26 @@ func (h *HepMC) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]
 	}
 	dst, info, err := h.convert(evt, momScale, lenScale, rng, dst)
 	if err != nil {
-		return dst[:0], Info{}, fmt.Errorf("gen: %s event %d: %w", h.name, number, err)
+		return fail(err)
 	}
 	return dst, info, nil
+}
+
+// lineOf returns the line number (1-based) of the byte at offset off, for
+// error messages: it counts the newlines before it, so it costs a read of
+// the file up to off and is used only on the error path.
+func (h *HepMC) lineOf(off int64) int {
+	line := 1
+	buf := make([]byte, 1<<16)
+	for pos := int64(0); pos < off; {
+		n, err := h.r.ReadAt(buf[:min(int64(len(buf)), off-pos)], pos)
+		line += bytes.Count(buf[:n], []byte{'\n'})
+		pos += int64(n)
+		if n == 0 || (err != nil && err != io.EOF) {
+			break
+		}
+	}
+	return line
 }
 
 // hasUnitsLine reports whether the event text has a "U" line.
@@ -384,17 +407,27 @@ func (h *HepMC) convert(evt *hepmc.Event, momScale, lenScale float64, rng *rand.
 			return dst, info, fmt.Errorf("particle barcode %d: vertex %v, t = %g ns is not finite", bc, pos, t)
 		}
 		pm := mom.Norm()
+		ekin := phys.KineticFromMomentum(pm, sp.Mass)
+		if !isFinite(ekin) {
+			// |p| or E overflows: components beyond about 1e154 MeV.
+			return dst, info, fmt.Errorf("particle barcode %d: momentum %v gives kinetic energy %g MeV", bc, mom, ekin)
+		}
 		var dir r3.Vector
 		switch {
 		case pm > 0:
 			dir = mom.Mul(1 / pm)
+		case sp.Mass > 0 && rng == nil:
+			return dst, info, fmt.Errorf("particle barcode %d: %s at rest needs a random direction, and rng is nil", bc, sp.Name)
 		case sp.Mass > 0: // at rest: any direction
 			dir = Isotropic().Sample(rng)
 		default:
 			return dst, info, fmt.Errorf("particle barcode %d: %s with zero momentum", bc, sp.Name)
 		}
-		dst = append(dst, phys.Particle{PDG: pdg, Pos: pos.Add(shift), Time: t + tShift,
-			Dir: dir, Ekin: phys.KineticFromMomentum(pm, sp.Mass)})
+		out := phys.Particle{PDG: pdg, Pos: pos.Add(shift), Time: t + tShift, Dir: dir, Ekin: ekin}
+		if !finiteVector(out.Pos) || !isFinite(out.Time) {
+			return dst, info, fmt.Errorf("particle barcode %d: vertex %v, t = %g ns after the shift is not finite", bc, out.Pos, out.Time)
+		}
+		dst = append(dst, out)
 	}
 	return dst, info, nil
 }

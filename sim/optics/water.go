@@ -204,6 +204,16 @@ func (c WaterConfig) validate() error {
 			return fmt.Errorf("optics: WaterConfig.MieExponent = %g must be finite", c.MieExponent)
 		}
 	}
+	// Fields that only matter when their feature is on must still not be
+	// NaN or infinite: such a value is a mistake even while unused.
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"MieWavelength", c.MieWavelength}, {"MieExponent", c.MieExponent}, {"AttenuationWavelength", c.AttenuationWavelength}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return fmt.Errorf("optics: WaterConfig.%s = %g must be finite", f.name, f.v)
+		}
+	}
 	if !(c.MieG > -1 && c.MieG < 1) {
 		return fmt.Errorf("optics: WaterConfig.MieG = %g must lie in (-1, 1)", c.MieG)
 	}
