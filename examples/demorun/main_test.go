@@ -3,10 +3,15 @@ package main
 import (
 	"bytes"
 	"context"
+	"image/png"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/plot/vg"
+
+	"github.com/conelight/conelight/fit/display"
 )
 
 func TestRunTiny(t *testing.T) {
@@ -34,5 +39,41 @@ func TestRunTiny(t *testing.T) {
 	}
 	if _, err := parseEnergies("10,abc"); err == nil {
 		t.Error("bad energy list accepted")
+	}
+}
+
+func TestReconstructTiny(t *testing.T) {
+	// Reconstruction at a tiny size: low-energy electrons and one
+	// ring-fitted muon, the table rows and every figure written; the PNGs
+	// decode at the size they were drawn at.
+	dir := t.TempDir()
+	var out, progress bytes.Buffer
+	o := options{particles: []string{"e-", "mu-"}, energies: []float64{30, 300}, n: 5, seed: 4, out: dir, ringFit: 1}
+	if err := run(context.Background(), &out, &progress, o); err != nil {
+		t.Fatal(err)
+	}
+	s := out.String()
+	for _, row := range []string{"e-           30 low-energy", "mu-         300 ring"} {
+		if !strings.Contains(s, row) {
+			t.Errorf("no row %q in\n%s", row, s)
+		}
+	}
+	for _, f := range []struct {
+		name string
+		w, h vg.Length
+	}{{"event", 8 * vg.Inch, 7.5 * vg.Inch}, {"residuals", 6 * vg.Inch, 4 * vg.Inch}, {"charge-angle", 6 * vg.Inch, 4 * vg.Inch}, {"resolution", 10 * vg.Inch, 8 * vg.Inch}, {"pulls", 10 * vg.Inch, 4 * vg.Inch}} {
+		r, err := os.Open(filepath.Join(dir, f.name+".png"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		cfg, err := png.DecodeConfig(r)
+		r.Close()
+		w, h := display.PixelSize(f.w, f.h)
+		if err != nil || cfg.Width != w || cfg.Height != h {
+			t.Errorf("%s.png: %dx%d, %v; want %dx%d", f.name, cfg.Width, cfg.Height, err, w, h)
+		}
+		if st, err := os.Stat(filepath.Join(dir, f.name+".svg")); err != nil || st.Size() < 1000 {
+			t.Errorf("%s.svg: %v", f.name, err)
+		}
 	}
 }

@@ -1,0 +1,124 @@
+package ring
+
+import (
+	"testing"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/optics"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// largeConfig is the large reference tank: 40% coverage of the large
+// sensor class, pure water, trigger threshold 25 hits.
+func largeConfig(tb testing.TB, seed uint64) sim.Config {
+	tb.Helper()
+	m := pmt.Large()
+	det, err := geom.Layout(geom.LargeTank(), m.CathodeDiameter, 0.40)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	w, err := optics.NewWater(optics.DefaultWaterConfig())
+	if err != nil {
+		tb.Fatal(err)
+	}
+	trig := sim.DefaultTrigger()
+	trig.Threshold = 25
+	return sim.Config{Detector: det, Sensor: m, Water: w, Liner: optics.DefaultLiner(), Trigger: trig, Seed: seed, Workers: 1}
+}
+
+func setup(tb testing.TB, cfg sim.Config, skipErrors bool) (*sim.Simulator, *Fitter) {
+	tb.Helper()
+	s, err := sim.New(cfg)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	c := s.Config()
+	f, err := New(Config{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner, SkipUncertainties: skipErrors})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return s, f
+}
+
+// BenchmarkFit is one two-hypothesis fit (seed, electron and muon fits,
+// with Hessians and Cramer-Rao bounds unless "noerrors") of a 500 MeV/c
+// event on one core, in the demo and the large tank.
+func BenchmarkFit(b *testing.B) {
+	for _, tank := range benchTanks(b) {
+		for _, skip := range []bool{false, true} {
+			s, f := setup(b, tank.cfg, skip)
+			w := f.NewWorkspace()
+			for _, c := range []struct {
+				name string
+				pdg  int
+				mass float64
+			}{{"e", phys.Electron, phys.ElectronMass}, {"mu", phys.MuonMinus, phys.MuonMass}} {
+				name := tank.name + "/" + c.name + "-500MeV"
+				if skip {
+					name += "/noerrors"
+				}
+				ev, err := s.Event(1, []phys.Particle{{PDG: c.pdg, Pos: r3.Vector{X: -100, Y: 50}, Dir: r3.Vector{X: 0.6, Z: 0.8},
+					Ekin: phys.KineticFromMomentum(500, c.mass)}})
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.Run(name, func(b *testing.B) {
+					b.ReportAllocs()
+					evals := 0
+					for i := 0; i < b.N; i++ {
+						rec, err := w.Fit(ev.Hits, Window{})
+						if err != nil {
+							b.Fatal(err)
+						}
+						evals += rec.Electron.Evaluations + rec.Muon.Evaluations
+					}
+					b.ReportMetric(float64(evals)/float64(b.N), "evals/op")
+				})
+			}
+		}
+	}
+}
+
+// BenchmarkLikelihood is one likelihood evaluation (prediction at every
+// sensor plus the charge and time terms); it must not allocate.
+func BenchmarkLikelihood(b *testing.B) {
+	for _, tank := range benchTanks(b) {
+		s, f := setup(b, tank.cfg, true)
+		w := f.NewWorkspace()
+		tr := Track{Vertex: r3.Vector{X: -100, Y: 50}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: 400}
+		ev, err := s.Event(1, []phys.Particle{{PDG: phys.MuonMinus, Pos: tr.Vertex, Dir: tr.Dir, Ekin: tr.Ekin}})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, _, err := w.setEvent(ev.Hits, Window{}); err != nil {
+			b.Fatal(err)
+		}
+		for _, h := range []Hypothesis{Electron, Muon} {
+			b.Run(tank.name+"/"+h.String(), func(b *testing.B) {
+				b.ReportAllocs()
+				for i := 0; i < b.N; i++ {
+					w.nll(h, tr)
+				}
+			})
+		}
+	}
+}
+
+type benchTank struct {
+	name string
+	cfg  sim.Config
+}
+
+// benchTanks returns the demo and the large tank, one simulation worker.
+func benchTanks(b *testing.B) []benchTank {
+	demo, err := sim.DemoConfig(1)
+	if err != nil {
+		b.Fatal(err)
+	}
+	demo.Workers = 1
+	return []benchTank{{"demo", demo}, {"large", largeConfig(b, 1)}}
+}

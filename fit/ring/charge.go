@@ -1,0 +1,254 @@
+package ring
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/conelight/conelight/pmt"
+)
+
+// chargeTable holds -log P(q | mu) for a hit of charge q (pe) above
+// threshold and -log P(no hit | mu) for a sensor with mean mu
+// photoelectrons: the Poisson photoelectron count convolved with the
+// single-pe charge spectrum of the sensor. Read-only after construction.
+//
+// The n-photoelectron charge is the sum of n single-pe charges, each from
+// the gamma main peak (shape 1/w^2) or, with probability LowFraction, the
+// exponential low-charge component. With j low-charge photoelectrons the
+// sum is a gamma of shape (n-j)/w^2 convolved with a gamma of shape j;
+// where both are present the convolution is replaced by the gamma of the
+// same mean and variance. The tables cover mu up to muHi and q up to qHi;
+// beyond, the compound Poisson sum is approximated by a Gaussian of mean
+// mu*m1 and variance mu*m2 (m1, m2: first and second moments of the
+// single-pe charge), with a linear blend between muBlend and muHi so that
+// the likelihood stays continuous in mu.
+type chargeTable struct {
+	threshold  float64
+	saturation float64
+	m1, m2     float64
+	// hit[i*nq+j]: -log density at log-mu node i, q node j.
+	hit []float64
+	// none[i]: -log P(no hit) at log-mu node i.
+	none []float64
+}
+
+const (
+	cqStep   = 0.05
+	cqHi     = 40.0
+	cLogMuLo = -12.0              // mu = 6e-6
+	cLogMuHi = 3.6888794541139363 // ln 40
+	cMuBlend = 30.0
+	cMuHi    = 40.0
+	cNMu     = 480
+	cNMax    = 110
+)
+
+var (
+	cNQ      = int(cqHi/cqStep) + 1
+	cLogMuDx = (cLogMuHi - cLogMuLo) / (cNMu - 1)
+)
+
+func newChargeTable(m *pmt.Model) (*chargeTable, error) {
+	spe := m.SPE
+	if err := spe.Validate(); err != nil {
+		return nil, fmt.Errorf("ring: sensor SPE: %w", err)
+	}
+	width := math.Max(spe.Width, 0.05) // a sharp peak is smoothed to 5% for the density
+	theta := width * width             // gamma scale of the main peak
+	f, lm := spe.LowFraction, spe.LowMean
+	t := &chargeTable{threshold: m.Threshold, saturation: m.Saturation}
+	t.m1 = (1 - f) + f*lm
+	t.m2 = (1-f)*(1+theta) + f*2*lm*lm
+	// densities[n][j] of the n-pe charge at q_j, and CDF at the threshold.
+	dens := make([][]float64, cNMax+1)
+	cdfThr := make([]float64, cNMax+1)
+	for n := 1; n <= cNMax; n++ {
+		dens[n] = make([]float64, cNQ)
+		for jl := 0; jl <= n; jl++ {
+			wb := binomialPMF(n, jl, f)
+			if wb < 1e-12 {
+				continue
+			}
+			mean := float64(n-jl) + float64(jl)*lm
+			vr := float64(n-jl)*theta + float64(jl)*lm*lm
+			shape, scale := mean*mean/vr, vr/mean
+			cdfThr[n] += wb * gammaCDF(t.threshold, shape, scale)
+			for j := range dens[n] {
+				dens[n][j] += wb * gammaPDF(float64(j)*cqStep, shape, scale)
+			}
+		}
+	}
+	t.hit = make([]float64, cNMu*cNQ)
+	t.none = make([]float64, cNMu)
+	for i := 0; i < cNMu; i++ {
+		mu := math.Exp(cLogMuLo + float64(i)*cLogMuDx)
+		p0 := math.Exp(-mu)
+		row := t.hit[i*cNQ : (i+1)*cNQ]
+		lp := -mu // log Poisson(n=0)
+		for n := 1; n <= cNMax; n++ {
+			lp += math.Log(mu) - math.Log(float64(n))
+			pn := math.Exp(lp)
+			p0 += pn * cdfThr[n]
+			for j := range row {
+				row[j] += pn * dens[n][j]
+			}
+		}
+		for j := range row {
+			row[j] = -math.Log(math.Max(row[j], 1e-300))
+		}
+		t.none[i] = -math.Log(math.Min(math.Max(p0, 1e-300), 1))
+	}
+	return t, nil
+}
+
+func binomialPMF(n, k int, p float64) float64 {
+	if p == 0 {
+		if k == 0 {
+			return 1
+		}
+		return 0
+	}
+	lg := func(x int) float64 { v, _ := math.Lgamma(float64(x + 1)); return v }
+	return math.Exp(lg(n) - lg(k) - lg(n-k) + float64(k)*math.Log(p) + float64(n-k)*math.Log1p(-p))
+}
+
+func gammaPDF(x, shape, scale float64) float64 {
+	if x <= 0 {
+		if shape == 1 && x == 0 {
+			return 1 / scale
+		}
+		return 0
+	}
+	lg, _ := math.Lgamma(shape)
+	return math.Exp((shape-1)*math.Log(x/scale) - x/scale - lg - math.Log(scale))
+}
+
+// gammaCDF is the regularized lower incomplete gamma P(shape, x/scale),
+// by its series (x/scale below shape+1) or continued fraction.
+func gammaCDF(x, shape, scale float64) float64 {
+	if x <= 0 {
+		return 0
+	}
+	z := x / scale
+	lg, _ := math.Lgamma(shape)
+	if z < shape+1 {
+		sum, term := 1/shape, 1/shape
+		for n := 1; n < 1000; n++ {
+			term *= z / (shape + float64(n))
+			sum += term
+			if term < sum*1e-15 {
+				break
+			}
+		}
+		return sum * math.Exp(-z+shape*math.Log(z)-lg)
+	}
+	// Lentz continued fraction for Q.
+	b := z + 1 - shape
+	c := 1 / 1e-300
+	d := 1 / b
+	h := d
+	for i := 1; i < 1000; i++ {
+		an := -float64(i) * (float64(i) - shape)
+		b += 2
+		d = an*d + b
+		if math.Abs(d) < 1e-300 {
+			d = 1e-300
+		}
+		c = b + an/c
+		if math.Abs(c) < 1e-300 {
+			c = 1e-300
+		}
+		d = 1 / d
+		del := d * c
+		h *= del
+		if math.Abs(del-1) < 1e-15 {
+			break
+		}
+	}
+	return 1 - math.Exp(-z+shape*math.Log(z)-lg)*h
+}
+
+// gaussHit is -log of the Gaussian approximation of the charge density.
+func (t *chargeTable) gaussHit(q, mu float64) float64 {
+	m, v := mu*t.m1, mu*t.m2
+	d := q - m
+	return 0.5*d*d/v + 0.5*math.Log(2*math.Pi*v)
+}
+
+// gaussNone is -log of the Gaussian approximation of P(q < threshold).
+func (t *chargeTable) gaussNone(mu float64) float64 {
+	m, v := mu*t.m1, mu*t.m2
+	return -logNormCDF((t.threshold - m) / math.Sqrt(v))
+}
+
+// logNormCDF is log Phi(x), accurate far in the lower tail.
+func logNormCDF(x float64) float64 {
+	if x > -5 {
+		return math.Log(0.5 * math.Erfc(-x/math.Sqrt2))
+	}
+	// Asymptotic series of the Mills ratio.
+	x2 := x * x
+	return -0.5*x2 - math.Log(-x) - 0.5*math.Log(2*math.Pi) + math.Log(1-1/x2+3/(x2*x2))
+}
+
+// muNode returns the log-mu node and fraction for mu.
+func muNode(mu float64) (int, float64) {
+	x := (math.Log(mu) - cLogMuLo) / cLogMuDx
+	if x <= 0 {
+		return 0, 0
+	}
+	i := int(x)
+	if i >= cNMu-1 {
+		return cNMu - 2, 1
+	}
+	return i, x - float64(i)
+}
+
+// nllHit is -log P(q | mu) for a hit of charge q; a charge at the
+// saturation limit counts as P(Q >= saturation).
+func (t *chargeTable) nllHit(q, mu float64) float64 {
+	if t.saturation > 0 && q >= t.saturation*(1-1e-9) {
+		m, v := mu*t.m1, mu*t.m2
+		return -logNormCDF((m - t.saturation) / math.Sqrt(v))
+	}
+	if mu >= cMuBlend || q >= cqHi {
+		g := t.gaussHit(q, mu)
+		if mu >= cMuHi || q >= cqHi {
+			return g
+		}
+		w := (mu - cMuBlend) / (cMuHi - cMuBlend)
+		return w*g + (1-w)*t.tableHit(q, mu)
+	}
+	return t.tableHit(q, mu)
+}
+
+func (t *chargeTable) tableHit(q, mu float64) float64 {
+	i, fm := muNode(mu)
+	x := q / cqStep
+	j := int(x)
+	if j >= cNQ-1 {
+		j = cNQ - 2
+	}
+	fq := x - float64(j)
+	a := t.hit[i*cNQ+j]*(1-fq) + t.hit[i*cNQ+j+1]*fq
+	b := t.hit[(i+1)*cNQ+j]*(1-fq) + t.hit[(i+1)*cNQ+j+1]*fq
+	return a*(1-fm) + b*fm
+}
+
+// nllNone is -log P(no hit | mu).
+func (t *chargeTable) nllNone(mu float64) float64 {
+	if mu >= cMuBlend {
+		g := t.gaussNone(mu)
+		if mu >= cMuHi {
+			return g
+		}
+		w := (mu - cMuBlend) / (cMuHi - cMuBlend)
+		return w*g + (1-w)*t.tableNone(mu)
+	}
+	return t.tableNone(mu)
+}
+
+func (t *chargeTable) tableNone(mu float64) float64 {
+	i, f := muNode(mu)
+	return t.none[i]*(1-f) + t.none[i+1]*f
+}

@@ -1,0 +1,111 @@
+// Package ring reconstructs single-ring events in a water-Cherenkov tank:
+// the vertex, time, direction and kinetic energy of one electron-like or
+// muon-like track from the hit charges and times alone, by maximum
+// likelihood under both hypotheses, with electron/muon identification
+// from the likelihood ratio and the parent neutrino energy of a
+// quasi-elastic interaction.
+//
+// Units: cm, ns, MeV (momenta MeV/c); charges in pe; wavelengths in nm.
+//
+// # Light model
+//
+// For a track hypothesis (vertex v, time t0, unit direction u, kinetic
+// energy E) the mean number of photoelectrons at sensor i is
+//
+//	mu_i = A/(2 pi) sum_k  g_k(cos theta) * <cos eta / R^2 * acc(cos eta) * eps(R)>_k  + mu_ind,i
+//
+// The sum runs over steps k along the track, up to the end of the light or
+// the wall. g_k is the emission profile of step k: photons per unit
+// cosine of the angle theta between the initial direction and the line to
+// the sensor, tabulated from the simulator for electrons (showers with
+// their angular and longitudinal spread) and muons (the cone that shrinks
+// as they slow down, their delta rays). Within a step the angle to the
+// sensor changes monotonically, so the step's light is the count between
+// the angles seen from its two ends divided by their difference: a sharp
+// cone is integrated exactly with coarse steps. A is the photocathode
+// area, eta the angle of incidence on the cathode, acc the sensor's
+// angular acceptance, and eps(R) the detection efficiency (quantum x
+// collection) times the direct-light survival exp(-R/L(lambda)), L the
+// absorption and scattering length, averaged over the Cherenkov spectrum.
+// The indirect term mu_ind spreads the direct total times (exp(R/L_scat)-1
+// + liner reflectivity x (1 - coverage)) over the sensors as from an
+// isotropic source at the light centroid.
+//
+// The predicted direct-light time of a sensor is t0 + s/c + delay(s) +
+// R(s)/v_g from the point s on the track that sees it at the Cherenkov
+// angle (clamped to the light-emitting part of the track), with v_g the
+// spectrum-averaged group velocity and delay the tabulated mean emission
+// delay.
+//
+// # Likelihood
+//
+// A sensor without a hit contributes P(no hit above threshold | mu),
+// a hit sensor P(q | mu): the Poisson photoelectron count convolved with
+// the sensor's single-pe charge spectrum, tabulated in (log mu, q) when
+// the Fitter is built, Gaussian above 40 pe (clipped charges count as
+// P(Q >= saturation)). The first hit time of a sensor adds the density of
+// the time residual: the earliest of a Poisson number of Gaussian direct
+// photoelectrons (first-photon statistics, sharper with more light),
+// exponentially delayed indirect light, and flat dark noise over the
+// readout window, weighted by the chance that the first photoelectron is
+// of each kind.
+//
+// # Fit
+//
+// Fit seeds the vertex and time from a point fit of the hit times (grid,
+// then Nelder-Mead), restricts the hits to a prompt window about that
+// time, finds the ring axis by a search over directions for the charge at
+// the Cherenkov angle, and for each hypothesis matches the energy to the
+// total charge and moves the start back along the track. Seven parameters
+// are then fitted with gonum/optimize (BFGS, numerical gradient) in
+// variables scaled to about one standard deviation, the vertex moving
+// along the track together with the time. Uncertainties come from the
+// numerical Hessian (gonum/diff/fd, central differences), and the
+// Cramer-Rao bound from the expected Fisher information of the prediction.
+// When the likelihood ratio is not decisive (below 200) the losing
+// hypothesis is refitted from the winner's track and the better of its two
+// fits kept. Uncertainties are computed for the hypothesis with the better
+// likelihood. A Result is marked Converged only inside the tank and the
+// table energy range, and then holds finite numbers only; otherwise
+// Reason says why. ErrorsValid is false when the numerical Hessian is not
+// positive definite (ErrorsNote), which leaves the fit and the particle
+// identification standing.
+//
+// The Hessian uncertainties are those of the likelihood as written, which
+// treats sensors as independent given the mean light profile. The
+// event-by-event fluctuations of a shower or of delta rays are correlated
+// across sensors and are not in it, so the pull distributions measured on
+// simulated events (TestDemoRegression reports them) are several times
+// wider than one: scale the errors by the measured pull widths when they
+// are used as resolutions.
+//
+// Inputs the fit cannot use (no hits, a hit with a sensor index out of
+// range or a non-finite time or charge, no hit inside the readout window,
+// a seed outside the tank or an energy outside the tables) give errors
+// naming the field and value; dead sensors are left out by Config.Dead.
+//
+// # Tables
+//
+// The emission profiles (profiles.gob.gz, embedded) are made by
+//
+//	go generate ./fit/ring
+//
+// which runs internal/gentables: single electrons and muons at 23 kinetic
+// energies each (electrons 20 MeV - 3 GeV, muons 65 MeV - 3 GeV) through
+// unbounded water with sim/transport and sim/cherenkov, counting the
+// photons of the 300-650 nm band (where photocathodes behind glass
+// respond; a sensor's efficiency outside it is ignored) in 32 bins of the
+// distance along the initial direction (scaled to each energy's light
+// extent) by 110 bins of the cosine to it. They depend only on the
+// particle physics and the refractive index; absorption, scattering, the
+// sensors and the tank are parameters of the Fitter.
+// Between nodes the profiles are interpolated in log energy at the same
+// scaled distance.
+//
+// # Concurrency
+//
+// A Fitter is immutable after New and safe for concurrent use; give each
+// goroutine its own Workspace (NewWorkspace), which holds the per-sensor
+// predictions and the event's hits. The likelihood evaluation does not
+// allocate.
+package ring

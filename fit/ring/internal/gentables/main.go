@@ -1,0 +1,296 @@
+// Command gentables makes the emission profiles that package ring embeds:
+// for electrons and muons at a ladder of kinetic energies it follows
+// single particles through unbounded pure water with the simulator's
+// transport (sim/transport: sim/em and sim/muon) and Cherenkov emitter
+// (sim/cherenkov, no pre-scaling, over the 300-650 nm band photosensors
+// behind glass respond to)
+// and counts every photon by its distance s along the initial direction
+// from the start point and the cosine of its angle to that direction.
+// The tables therefore depend on the particle physics and the refractive
+// index of water only; absorption, scattering and the sensors enter the
+// prediction in package ring, not here.
+//
+// Run from fit/ring with
+//
+//	go generate
+//
+// which executes `go run ./internal/gentables -o profiles.gob.gz`. The
+// file is written atomically (temporary file, then rename). The run is
+// deterministic: the random stream of each (species, energy, event) is a
+// fixed PCG stream.
+package main
+
+import (
+	"compress/gzip"
+	"encoding/gob"
+	"flag"
+	"fmt"
+	"log"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sync"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit/ring/internal/profile"
+	"github.com/conelight/conelight/sim/cherenkov"
+	"github.com/conelight/conelight/sim/em"
+	"github.com/conelight/conelight/sim/material"
+	"github.com/conelight/conelight/sim/muon"
+	"github.com/conelight/conelight/sim/optics"
+	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/transport"
+)
+
+// unbounded is the tracking volume: all of space, so that the profiles
+// describe a particle in an infinite tank.
+type unbounded struct{}
+
+func (unbounded) Contains(r3.Vector) bool { return true }
+
+// maxEmitTime drops light emitted later than this (ns) after the start:
+// a stopped muon's decay electron a microsecond later is a separate event,
+// not part of the ring.
+const maxEmitTime = 80
+
+// detectLo, detectHi (nm) is the counted band: the response of bialkali
+// photocathodes behind borosilicate glass (common practice).
+const detectLo, detectHi = 300.0, 650.0
+
+// fineDS is the width (cm) of the fine histogram in s that is rebinned
+// into the node's own bins once its extent is known.
+const fineDS = 1.0
+
+type counter struct {
+	emitter *cherenkov.Emitter
+	rng     *rand.Rand
+	photons []cherenkov.Photon
+	start   r3.Vector
+	dir     r3.Vector
+	fine    [][]float64 // [fine s bin][cos bin] photon counts
+	tsum    []float64   // per fine s bin, sum of (t - s/c)
+	err     error
+}
+
+func (c *counter) Segment(seg phys.Segment) {
+	if c.err != nil || seg.T0 > maxEmitTime {
+		return
+	}
+	var err error
+	c.photons, err = c.emitter.Emit(seg, c.rng, c.photons[:0])
+	if err != nil {
+		c.err = err
+		return
+	}
+	for _, p := range c.photons {
+		s := p.Pos.Sub(c.start).Dot(c.dir)
+		if s < 0 {
+			s = 0
+		}
+		k := int(s / fineDS)
+		if k >= len(c.fine) {
+			k = len(c.fine) - 1
+		}
+		j := profile.CosBin(p.Dir.Dot(c.dir))
+		c.fine[k][j]++
+		c.tsum[k] += p.Time - s/phys.SpeedOfLight
+	}
+}
+func (c *counter) Secondary(phys.Particle)                  {}
+func (c *counter) Deposit(r3.Vector, float64, float64, int) {}
+
+func main() {
+	out := flag.String("o", "profiles.gob.gz", "output file")
+	scale := flag.Float64("events", 1, "scale factor on the number of events per energy")
+	flag.Parse()
+	if err := run(*out, *scale); err != nil {
+		log.Fatal(err)
+	}
+}
+
+func run(out string, scale float64) error {
+	water, err := optics.NewWater(optics.DefaultWaterConfig())
+	if err != nil {
+		return err
+	}
+	// The band of light photosensors behind glass can detect: the tables
+	// count only it, so that the cone width is that of the detectable
+	// light (ultraviolet photons, emitted at larger angles, would widen it).
+	lo, hi := math.Max(detectLo, 0), detectHi
+	if wlo, whi := water.Band(); lo < wlo || hi > whi {
+		return fmt.Errorf("gentables: band %g-%g nm outside the water tables %g-%g nm", lo, hi, wlo, whi)
+	}
+	emitter, err := cherenkov.NewEmitter(water, lo, hi, 1)
+	if err != nil {
+		return err
+	}
+	nmax := 1 / emitter.Threshold()
+	emCfg, err := em.ConfigForIndex(nmax)
+	if err != nil {
+		return err
+	}
+	muCfg := muon.DefaultConfig()
+	muCfg.ThresholdIndex = nmax
+	physics, err := transport.New(material.Water(), emCfg, muCfg)
+	if err != nil {
+		return err
+	}
+	file := profile.File{Format: profile.FormatName, Version: profile.FormatVersion,
+		BandLo: lo, BandHi: hi, Water: fmt.Sprintf("%+v", water.Config())}
+	for _, sp := range []struct {
+		pdg      int
+		lo, hi   float64
+		nodes    int
+		baseline float64 // events at 100 MeV; fewer above, more below
+	}{
+		{phys.Electron, 20, 3000, 23, 300},
+		{phys.MuonMinus, 65, 3000, 23, 300},
+	} {
+		tab := profile.Species{PDG: sp.pdg, NS: profile.NS, CosEdges: profile.CosEdges()}
+		for k := 0; k < sp.nodes; k++ {
+			tab.Energies = append(tab.Energies, sp.lo*math.Pow(sp.hi/sp.lo, float64(k)/float64(sp.nodes-1)))
+		}
+		tab.Nodes = make([]profile.Node, sp.nodes)
+		var wg sync.WaitGroup
+		sem := make(chan struct{}, runtime.GOMAXPROCS(0))
+		errs := make([]error, sp.nodes)
+		for k, e := range tab.Energies {
+			n := int(scale * sp.baseline * math.Sqrt(100/e) * 2)
+			n = max(n, int(40*scale), 2)
+			wg.Add(1)
+			sem <- struct{}{}
+			go func() {
+				defer wg.Done()
+				defer func() { <-sem }()
+				tab.Nodes[k], errs[k] = node(physics, emitter, sp.pdg, e, n, uint64(k))
+			}()
+		}
+		wg.Wait()
+		for _, err := range errs {
+			if err != nil {
+				return err
+			}
+		}
+		file.Species = append(file.Species, tab)
+		log.Printf("species %d done", sp.pdg)
+	}
+	return writeAtomic(out, &file)
+}
+
+// node simulates n particles of kinetic energy e and returns their mean
+// emission profile.
+func node(physics *transport.Physics, emitter *cherenkov.Emitter, pdg int, e float64, n int, stream uint64) (profile.Node, error) {
+	tr, err := transport.NewTracker(physics)
+	if err != nil {
+		return profile.Node{}, err
+	}
+	const maxS = 2000.0
+	nf := int(maxS / fineDS)
+	c := &counter{emitter: emitter, dir: r3.Vector{Z: 1},
+		rng:  rand.New(rand.NewPCG(uint64(pdg+1000), stream)),
+		fine: make([][]float64, nf), tsum: make([]float64, nf)}
+	for i := range c.fine {
+		c.fine[i] = make([]float64, profile.NC)
+	}
+	var length float64
+	for i := 0; i < n; i++ {
+		prim := []phys.Particle{{PDG: pdg, Dir: c.dir, Ekin: e}}
+		recs, err := tr.Run(prim, unbounded{}, c.rng, c)
+		if err != nil {
+			return profile.Node{}, err
+		}
+		if c.err != nil {
+			return profile.Node{}, c.err
+		}
+		length += recs[0].TrackLength
+	}
+	// Extent: the s below which all but 0.2% of the light is emitted.
+	var total float64
+	perS := make([]float64, nf)
+	for k := range c.fine {
+		for _, v := range c.fine[k] {
+			perS[k] += v
+		}
+		total += perS[k]
+	}
+	if total == 0 {
+		return profile.Node{}, fmt.Errorf("gentables: no light for PDG %d at %g MeV", pdg, e)
+	}
+	var acc float64
+	extent := maxS
+	for k, v := range perS {
+		acc += v
+		if acc >= 0.998*total {
+			extent = float64(k+1) * fineDS
+			break
+		}
+	}
+	nd := profile.Node{Ekin: e, Events: n, Extent: extent, Photons: total / float64(n),
+		TrackLength: length / float64(n),
+		Counts:      make([]float32, profile.NS*profile.NC), Delay: make([]float32, profile.NS)}
+	ds := extent / profile.NS
+	var delayW = make([]float64, profile.NS)
+	// Rebin the fine s bins into NS bins of width ds, splitting a fine bin
+	// that straddles an edge in proportion to its overlap; light beyond
+	// the extent goes to the last bin.
+	for k := range c.fine {
+		a, b := float64(k)*fineDS, float64(k+1)*fineDS
+		for a < b {
+			j := int(a / ds)
+			if j >= profile.NS {
+				j = profile.NS - 1
+			}
+			end := math.Min(b, float64(j+1)*ds)
+			if j == profile.NS-1 {
+				end = b
+			}
+			f := (end - a) / fineDS
+			for m, v := range c.fine[k] {
+				nd.Counts[j*profile.NC+m] += float32(f * v / float64(n))
+			}
+			nd.Delay[j] += float32(f * c.tsum[k])
+			delayW[j] += f * perS[k]
+			a = end
+		}
+	}
+	for j := range nd.Delay {
+		if delayW[j] > 0 {
+			nd.Delay[j] = float32(float64(nd.Delay[j]) / delayW[j])
+		}
+	}
+	log.Printf("PDG %d %8.2f MeV: %4d events, %9.0f photons, extent %6.1f cm, track %6.1f cm", pdg, e, n, nd.Photons, extent, nd.TrackLength)
+	return nd, nil
+}
+
+func writeAtomic(path string, f *profile.File) (err error) {
+	tmp, err := os.CreateTemp(filepath.Dir(path), ".profiles-*")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			tmp.Close()
+			os.Remove(tmp.Name())
+		}
+	}()
+	zw, err := gzip.NewWriterLevel(tmp, gzip.BestCompression)
+	if err != nil {
+		return err
+	}
+	if err = gob.NewEncoder(zw).Encode(f); err != nil {
+		return err
+	}
+	if err = zw.Close(); err != nil {
+		return err
+	}
+	if err = tmp.Chmod(0o644); err != nil {
+		return err
+	}
+	if err = tmp.Close(); err != nil {
+		return err
+	}
+	return os.Rename(tmp.Name(), path)
+}

@@ -1,0 +1,146 @@
+package ring
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/conelight/conelight/pmt"
+)
+
+// Window is the readout window of an event (ns, event clock): hits outside
+// it are ignored, and its length sets the dark-noise level of the time
+// likelihood. The zero Window means the span of the hits.
+type Window struct {
+	Lo, Hi float64
+}
+
+// setEvent loads the hits into the workspace: the first hit of each live
+// sensor inside the window. It returns the number of hits used and the
+// number dropped (outside the window, on dead sensors or later hits of a
+// sensor already hit).
+func (w *Workspace) setEvent(hits []pmt.Hit, win Window) (used, dropped int, err error) {
+	f := w.f
+	for _, i := range w.hits {
+		w.hitQ[i] = -1
+	}
+	w.hits = w.hits[:0]
+	if len(hits) == 0 {
+		return 0, 0, errors.New("ring: event has no hits")
+	}
+	for k, h := range hits {
+		if h.Sensor < 0 || h.Sensor >= f.n {
+			return 0, 0, fmt.Errorf("ring: hit %d: Sensor = %d outside [0, %d)", k, h.Sensor, f.n)
+		}
+		if !finite(h.Time) {
+			return 0, 0, fmt.Errorf("ring: hit %d: Time = %g is not finite", k, h.Time)
+		}
+		if !finite(h.Charge) || h.Charge < 0 {
+			return 0, 0, fmt.Errorf("ring: hit %d: Charge = %g must be finite and non-negative", k, h.Charge)
+		}
+	}
+	if win == (Window{}) {
+		win.Lo, win.Hi = math.Inf(1), math.Inf(-1)
+		for _, h := range hits {
+			win.Lo, win.Hi = math.Min(win.Lo, h.Time), math.Max(win.Hi, h.Time)
+		}
+		win.Hi = math.Max(win.Hi, win.Lo+1)
+	}
+	if !finite(win.Lo) || !finite(win.Hi) || !(win.Hi > win.Lo) {
+		return 0, 0, fmt.Errorf("ring: Window {Lo: %g, Hi: %g} must be finite with Hi > Lo", win.Lo, win.Hi)
+	}
+	w.window = win.Hi - win.Lo
+	for _, h := range hits {
+		if h.Time < win.Lo || h.Time > win.Hi || f.dead[h.Sensor] {
+			dropped++
+			continue
+		}
+		i := h.Sensor
+		if w.hitQ[i] < 0 {
+			w.hits = append(w.hits, i)
+			w.hitQ[i], w.hitT[i] = h.Charge, h.Time
+			continue
+		}
+		dropped++
+		if h.Time < w.hitT[i] {
+			w.hitQ[i], w.hitT[i] = h.Charge, h.Time
+		}
+	}
+	if len(w.hits) == 0 {
+		return 0, dropped, fmt.Errorf("ring: no hit of the %d lies inside the readout window [%g, %g] ns on a live sensor", len(hits), win.Lo, win.Hi)
+	}
+	return len(w.hits), dropped, nil
+}
+
+// restrict keeps only the hits with times in [lo, hi]: light before the
+// event or long after it (a decay electron, the next interaction) is not
+// part of the ring. It returns the number removed.
+func (w *Workspace) restrict(lo, hi float64) int {
+	kept := w.hits[:0]
+	removed := 0
+	for _, i := range w.hits {
+		if t := w.hitT[i]; t < lo || t > hi {
+			w.hitQ[i] = -1
+			removed++
+			continue
+		}
+		kept = append(kept, i)
+	}
+	w.hits = kept
+	return removed
+}
+
+// nll is the negative log likelihood of the loaded event for hypothesis h
+// and a valid track (unit direction, energy in the table range).
+func (w *Workspace) nll(h Hypothesis, tr Track) float64 {
+	w.evals++
+	w.predict(h, tr)
+	f := w.f
+	ct := f.charge
+	var sum float64
+	for i := 0; i < f.n; i++ {
+		if f.dead[i] || w.hitQ[i] >= 0 {
+			continue
+		}
+		sum += ct.nllNone(w.muD[i] + w.muI[i] + f.darkGate)
+	}
+	muN := math.Max(f.darkRate*w.window, 1e-9)
+	for _, i := range w.hits {
+		mD, mI := w.muD[i], w.muI[i]
+		sum += ct.nllHit(w.hitQ[i], mD+mI+f.darkGate)
+		sum += w.timeNLL(w.hitT[i]-w.tDir[i], w.sgT[i], mD, mI, muN)
+	}
+	return sum
+}
+
+// timeNLL is -log of the density of a hit's time residual dt (ns) about
+// the predicted direct-light time, a mixture of
+//   - the earliest of a Poisson number (mean muD) of direct photoelectrons,
+//     each Gaussian with spread sigma: muD phi(x) exp(-muD Phi(x)) /
+//     (sigma (1 - exp(-muD))), x = dt/sigma, which narrows and moves early
+//     as muD grows (first-photon statistics);
+//   - scattered and reflected light, delayed exponentially with lateTau and
+//     smeared by sigma;
+//   - dark noise, flat over the readout window,
+//
+// weighted by the probability that the first photoelectron of the hit is of
+// each kind.
+func (w *Workspace) timeNLL(dt, sigma, muD, muI, muN float64) float64 {
+	pd := -math.Expm1(-muD)
+	ps := math.Exp(-muD) * -math.Expm1(-muI)
+	pn := math.Exp(-muD-muI) * -math.Expm1(-muN)
+	norm := pd + ps + pn
+	x := dt / sigma
+	var fd float64
+	if pd > 0 {
+		phi := math.Exp(-0.5*x*x) / (sigma * math.Sqrt(2*math.Pi))
+		cdf := 0.5 * math.Erfc(-x/math.Sqrt2)
+		fd = muD * phi * math.Exp(-muD*cdf) / pd
+	}
+	tau := w.f.lateTau
+	// exponentially modified Gaussian, in logs so that its far tails
+	// neither overflow nor underflow
+	fs := math.Exp(0.5*sigma*sigma/(tau*tau)-dt/tau+logNormCDF(x-sigma/tau)) / tau
+	dens := (pd*fd + ps*fs + pn/w.window) / norm
+	return -math.Log(math.Max(dens, 1e-300))
+}

@@ -1,0 +1,484 @@
+package ring
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit/ring/internal/profile"
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// Hypothesis is a particle hypothesis of a single-ring fit.
+type Hypothesis int
+
+// The two hypotheses.
+const (
+	Electron Hypothesis = iota // e-like: a showering electron (or photon-like shower)
+	Muon                       // mu-like: a muon track
+)
+
+// PDG returns the PDG code of the hypothesis (11 or 13).
+func (h Hypothesis) PDG() int {
+	if h == Muon {
+		return phys.MuonMinus
+	}
+	return phys.Electron
+}
+
+// Mass returns the particle mass (MeV).
+func (h Hypothesis) Mass() float64 {
+	if h == Muon {
+		return phys.MuonMass
+	}
+	return phys.ElectronMass
+}
+
+func (h Hypothesis) String() string {
+	switch h {
+	case Electron:
+		return "electron"
+	case Muon:
+		return "muon"
+	}
+	return fmt.Sprintf("Hypothesis(%d)", int(h))
+}
+
+// Track is a single-track hypothesis: start point (cm), start time (ns),
+// unit direction and kinetic energy (MeV).
+type Track struct {
+	Vertex r3.Vector
+	Time   float64
+	Dir    r3.Vector
+	Ekin   float64
+}
+
+// Config describes the detector a Fitter reconstructs events of.
+type Config struct {
+	// Detector is the tank and its sensors.
+	Detector *geom.Detector
+	// Sensor is the response of every sensor.
+	Sensor pmt.Model
+	// Water is the water's optics; nil means optics.DefaultWaterConfig().
+	Water *optics.Water
+	// Liner is the wall between the sensors; its reflectivity sets the
+	// reflected-light term.
+	Liner optics.Liner
+	// Dead lists sensors to leave out of the likelihood (dead, masked or
+	// known bad); their hits are ignored.
+	Dead []int
+	// SkipUncertainties leaves out the Hessian and the Cramer-Rao bound,
+	// which cost about as much as the fit itself.
+	SkipUncertainties bool
+	// MaxEvaluations bounds the likelihood evaluations of one hypothesis
+	// fit; 0 means 3000.
+	MaxEvaluations int
+}
+
+// Fitter reconstructs single-ring events in one detector. It is immutable
+// after New and safe for concurrent use; each goroutine needs its own
+// Workspace.
+type Fitter struct {
+	cfg    Config
+	det    *geom.Detector
+	tab    *tableSet
+	resp   *response
+	charge *chargeTable
+
+	n                      int
+	px, py, pz, nx, ny, nz []float64
+	dead                   []bool
+	live                   int
+
+	cathodeArea  float64 // cm^2
+	tts          float64 // ns
+	darkGate     float64 // mean dark pe in one integration gate
+	darkRate     float64 // per ns
+	reflected    float64 // reflected-light fraction of the direct light
+	lateTau      float64 // ns, decay constant of the indirect-light delay
+	trackSigma   [2]float64
+	maxEval      int
+	tankRadius   float64
+	tankHalfZ    float64
+	energyLo     [2]float64
+	energyHi     [2]float64
+	tanCherenkov float64
+}
+
+// electronTimeSigma and muonTimeSigma are the spread (ns) of the emission time about the
+// tabulated mean at the cone point: the lateral and longitudinal spread of
+// the shower for electrons, multiple scattering for muons (common
+// practice, values from memory).
+const (
+	electronTimeSigma = 0.7
+	muonTimeSigma     = 0.3
+)
+
+// New checks cfg and builds the response tables of the detector.
+func New(cfg Config) (*Fitter, error) {
+	if cfg.Detector == nil {
+		return nil, errors.New("ring: Config.Detector is nil")
+	}
+	if cfg.Detector.NumSensors() == 0 {
+		return nil, errors.New("ring: Config.Detector has no sensors")
+	}
+	if err := cfg.Sensor.Validate(); err != nil {
+		return nil, fmt.Errorf("ring: Config.Sensor: %w", err)
+	}
+	if cfg.Water == nil {
+		w, err := optics.NewWater(optics.DefaultWaterConfig())
+		if err != nil {
+			return nil, err
+		}
+		cfg.Water = w
+	}
+	if err := cfg.Liner.Validate(); err != nil {
+		return nil, fmt.Errorf("ring: Config.Liner: %w", err)
+	}
+	if cfg.MaxEvaluations < 0 {
+		return nil, fmt.Errorf("ring: Config.MaxEvaluations = %d must not be negative", cfg.MaxEvaluations)
+	}
+	ts, err := tables()
+	if err != nil {
+		return nil, err
+	}
+	det := cfg.Detector
+	t := det.Tank()
+	r := t.Radius - t.SensorOffset
+	h := t.Height/2 - t.SensorOffset
+	maxR := 2.1 * math.Hypot(r, h)
+	resp, err := newResponse(cfg.Water, &cfg.Sensor, ts.bandLo, ts.bandHi, maxR)
+	if err != nil {
+		return nil, err
+	}
+	ct, err := newChargeTable(&cfg.Sensor)
+	if err != nil {
+		return nil, err
+	}
+	n := det.NumSensors()
+	f := &Fitter{cfg: cfg, det: det, tab: ts, resp: resp, charge: ct, n: n,
+		px: make([]float64, n), py: make([]float64, n), pz: make([]float64, n),
+		nx: make([]float64, n), ny: make([]float64, n), nz: make([]float64, n),
+		dead: make([]bool, n)}
+	for i := 0; i < n; i++ {
+		s := det.Sensor(i)
+		f.px[i], f.py[i], f.pz[i] = s.Pos.X, s.Pos.Y, s.Pos.Z
+		f.nx[i], f.ny[i], f.nz[i] = s.Dir.X, s.Dir.Y, s.Dir.Z
+	}
+	for _, d := range cfg.Dead {
+		if d < 0 || d >= n {
+			return nil, fmt.Errorf("ring: Config.Dead has sensor %d outside [0, %d)", d, n)
+		}
+		f.dead[d] = true
+	}
+	for _, d := range f.dead {
+		if !d {
+			f.live++
+		}
+	}
+	if f.live == 0 {
+		return nil, errors.New("ring: Config.Dead masks every sensor")
+	}
+	m := cfg.Sensor
+	D := det.CathodeDiameter()
+	f.cathodeArea = math.Pi * D * D / 4
+	f.tts = m.TTS
+	f.darkRate = m.DarkRate * 1e-9
+	f.darkGate = math.Max(m.DarkRate*m.IntegrationWindow*1e-9, 1e-7)
+	f.reflected = cfg.Liner.Reflectivity * (1 - det.Coverage())
+	// Scattered light arrives later by a fraction of the crossing time.
+	f.lateTau = math.Max(0.5*r*resp.invGroup, 2)
+	f.trackSigma = [2]float64{electronTimeSigma, muonTimeSigma}
+	f.maxEval = cfg.MaxEvaluations
+	if f.maxEval == 0 {
+		f.maxEval = 3000
+	}
+	f.tankRadius, f.tankHalfZ = r, h
+	for k, st := range []*speciesTable{ts.electron, ts.muon} {
+		f.energyLo[k], f.energyHi[k] = st.energyRange()
+	}
+	f.tanCherenkov = math.Sqrt(resp.index*resp.index - 1)
+	return f, nil
+}
+
+// EnergyRange returns the kinetic energy range (MeV) of the emission
+// tables of hypothesis h: fits are confined to it.
+func (f *Fitter) EnergyRange(h Hypothesis) (lo, hi float64) {
+	return f.energyLo[h], f.energyHi[h]
+}
+
+func (f *Fitter) species(h Hypothesis) *speciesTable {
+	if h == Muon {
+		return f.tab.muon
+	}
+	return f.tab.electron
+}
+
+// Workspace is the per-goroutine scratch of a Fitter: the predicted
+// charges and times of every sensor and the event's hits in sensor order.
+// A Workspace is not safe for concurrent use.
+type Workspace struct {
+	f    *Fitter
+	prof profileAt
+	muD  []float64 // direct mean pe
+	muI  []float64 // indirect mean pe
+	tDir []float64 // predicted direct-light time, ns
+	sgT  []float64 // its spread, ns
+	// The event: first hit of each sensor (hitQ < 0 for none).
+	hitQ, hitT []float64
+	hits       []int // hit sensors
+	window     float64
+	evals      int
+}
+
+// NewWorkspace returns a scratch space for f.
+func (f *Fitter) NewWorkspace() *Workspace {
+	n := f.n
+	w := &Workspace{f: f, muD: make([]float64, n), muI: make([]float64, n),
+		tDir: make([]float64, n), sgT: make([]float64, n),
+		hitQ: make([]float64, n), hitT: make([]float64, n)}
+	for i := range w.hitQ {
+		w.hitQ[i] = -1
+	}
+	return w
+}
+
+// Predict fills mu with the predicted mean number of photoelectrons
+// (direct, scattered and reflected light, without dark noise) and t with
+// the predicted direct-light time (ns) at every sensor for hypothesis h
+// and track tr. mu and t must have Detector.NumSensors() elements; either
+// may be nil.
+func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
+	f := w.f
+	if (mu != nil && len(mu) != f.n) || (t != nil && len(t) != f.n) {
+		return fmt.Errorf("ring: Predict: slices of length %d and %d, want %d", len(mu), len(t), f.n)
+	}
+	if err := f.checkTrack(h, tr); err != nil {
+		return err
+	}
+	tr.Dir = tr.Dir.Normalize()
+	w.predict(h, tr)
+	for i := range mu {
+		mu[i] = w.muD[i] + w.muI[i]
+	}
+	copy(t, w.tDir)
+	return nil
+}
+
+func (f *Fitter) checkTrack(h Hypothesis, tr Track) error {
+	if h != Electron && h != Muon {
+		return fmt.Errorf("ring: hypothesis %d unknown", int(h))
+	}
+	v := tr.Vertex
+	if !finite(v.X) || !finite(v.Y) || !finite(v.Z) || !finite(tr.Time) {
+		return fmt.Errorf("ring: Track vertex %v, time %g must be finite", v, tr.Time)
+	}
+	if f.det.DistanceToWall(v) < 0 {
+		return fmt.Errorf("ring: Track.Vertex %v lies outside the sensor surface", v)
+	}
+	d := tr.Dir.Norm()
+	if !finite(d) || d < 1e-6 {
+		return fmt.Errorf("ring: Track.Dir %v must be a finite non-zero vector", tr.Dir)
+	}
+	lo, hi := f.EnergyRange(h)
+	if !(tr.Ekin >= lo && tr.Ekin <= hi) {
+		return fmt.Errorf("ring: Track.Ekin = %g MeV outside the %v table range %g-%g MeV", tr.Ekin, h, lo, hi)
+	}
+	return nil
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// predict computes muD, muI, tDir and sgT for a valid track (unit Dir,
+// energy in range, vertex inside). It does not allocate.
+func (w *Workspace) predict(h Hypothesis, tr Track) {
+	f := w.f
+	r := f.resp
+	p := &w.prof
+	f.species(h).interpolate(tr.Ekin, p)
+	v, u := tr.Vertex, tr.Dir
+	lexit := f.det.DistanceAlong(v, u)
+	if !(lexit > 0) {
+		lexit = 0
+	}
+	lim := math.Min(p.extent, lexit)
+	nsteps := min(int(math.Ceil(lim/p.ds)), nSteps)
+	tEnd := math.Min(p.light90, lexit)
+	// light-weighted mean emission point inside the tank: the source of
+	// the indirect light.
+	var sumL, sumLS float64
+	for k := 0; k < nsteps; k++ {
+		a, b := float64(k)*p.ds, math.Min(float64(k+1)*p.ds, lim)
+		l := p.total[k] * (b - a) / p.ds
+		sumL += l
+		sumLS += l * 0.5 * (a + b)
+	}
+	sc := 0.0
+	if sumL > 0 {
+		sc = sumLS / sumL
+	}
+	cx, cy, cz := v.X+sc*u.X, v.Y+sc*u.Y, v.Z+sc*u.Z
+	norm := f.cathodeArea / (2 * math.Pi)
+	tan := f.tanCherenkov
+	sig0 := f.tts*f.tts + f.trackSigma[h]*f.trackSigma[h]
+	// Delay of the emission at the cone point, per table bin.
+	binDS := p.extent / profile.NS
+	// Step edges along the track, shared by all sensors; stepFrac is the
+	// covered fraction of each step (the last may end at the wall) with
+	// the trapezoid's 1/2.
+	var edges, edges2 [nSteps + 1]float64
+	var stepFrac [nSteps]float64
+	for k := 0; k <= nsteps; k++ {
+		edges[k] = math.Min(float64(k)*p.ds, lim)
+		edges2[k] = edges[k] * edges[k]
+		if k > 0 {
+			stepFrac[k-1] = 0.5 * (edges[k] - edges[k-1]) / p.ds
+		}
+	}
+	accT, attT := r.acc, r.att
+	invAttStep := 1 / r.attStep
+	var sumD, sumDR, sumDE, sumG, sumGE float64
+	for i := 0; i < f.n; i++ {
+		dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
+		d2 := dx*dx + dy*dy + dz*dz
+		z := dx*u.X + dy*u.Y + dz*u.Z
+		dn := dx*f.nx[i] + dy*f.ny[i] + dz*f.nz[i]
+		un := u.X*f.nx[i] + u.Y*f.ny[i] + u.Z*f.nz[i]
+		// Direct light, step by step along the track (edge inlined: this
+		// loop is the hot path of the fit).
+		var mu float64
+		var cA, wA float64
+		var jA int
+		var rA float64
+		for k := 0; k <= nsteps; k++ {
+			s := edges[k]
+			R2 := d2 - 2*s*z + edges2[k]
+			if R2 < 1 {
+				R2 = 1
+			}
+			invR := 1 / math.Sqrt(R2)
+			R := R2 * invR
+			c := (z - s) * invR
+			ci := (s*un - dn) * invR // incidence cosine on the inward-facing cathode
+			var wt float64
+			if ci > 0 {
+				// acceptance and attenuation tables, linear
+				xa := ci * accN
+				ka := int(xa)
+				var acc float64
+				if ka >= accN {
+					acc = accT[accN]
+				} else {
+					acc = accT[ka] + (xa-float64(ka))*(accT[ka+1]-accT[ka])
+				}
+				xr := R * invAttStep
+				kr := int(xr)
+				var att float64
+				if kr >= len(attT)-1 {
+					att = attT[len(attT)-1]
+				} else {
+					att = attT[kr] + (xr-float64(kr))*(attT[kr+1]-attT[kr])
+				}
+				wt = ci * invR * invR * acc * att
+			}
+			xc := (c + 1) * (uniNC / 2)
+			j := int(xc)
+			var rc float64
+			if j < 0 {
+				j, rc = 0, 0
+			} else if j >= uniNC {
+				j, rc = uniNC-1, 2.0/uniNC
+			} else {
+				rc = (xc - float64(j)) * (2.0 / uniNC)
+			}
+			if k > 0 && wA+wt > 0 {
+				km := k - 1
+				var g float64
+				if dc := c - cA; dc > 1e-6 || dc < -1e-6 {
+					cb := p.cum[km*(uniNC+1)+j] + rc*p.dens[km*uniNC+j]
+					ca := p.cum[km*(uniNC+1)+jA] + rA*p.dens[km*uniNC+jA]
+					g = (cb - ca) / dc
+				} else {
+					g = p.dens[km*uniNC+jA]
+				}
+				mu += stepFrac[km] * g * (wA + wt)
+			}
+			cA, wA, jA, rA = c, wt, j, rc
+		}
+		mu *= norm
+		w.muD[i] = mu
+		// Direct-light time from the point that sees the sensor at the
+		// Cherenkov angle.
+		b := math.Sqrt(math.Max(d2-z*z, 0))
+		s := z - b/tan
+		s = min(max(s, 0), tEnd)
+		R := math.Sqrt(math.Max(d2-2*s*z+s*s, 0))
+		k := min(int(s/binDS), profile.NS-1)
+		w.tDir[i] = tr.Time + s/phys.SpeedOfLight + p.delay[k] + R*r.invGroup
+		sd := R * r.invGroupSD
+		w.sgT[i] = math.Sqrt(sig0 + sd*sd)
+		sumD += mu
+		sumDR += mu * R
+		if mu > 0 {
+			// efficiency of the direct light at its incidence
+			if cinc := (s*un - dn) / math.Max(R, 1); cinc > 0 {
+				sumDE += mu * r.acceptance(cinc) * r.attenuation(R)
+			}
+		}
+		// Isotropic source at the light centroid for the indirect light,
+		// with the sensor's acceptance and the attenuation from there.
+		ex, ey, ez := f.px[i]-cx, f.py[i]-cy, f.pz[i]-cz
+		e2 := ex*ex + ey*ey + ez*ez
+		e := math.Sqrt(e2)
+		ci := -(ex*f.nx[i] + ey*f.ny[i] + ez*f.nz[i]) / e
+		g, ge := 0.0, 0.0
+		if ci > 0 { // the sensor faces the source
+			g = ci / e2
+			ge = g * r.acceptance(ci) * r.attenuation(e)
+		}
+		w.muI[i] = ge
+		sumG += g
+		sumGE += ge
+	}
+	// Indirect light. Of the photons on the mean direct path R, a
+	// fraction 1 - exp(-R/L_scat) scatters, on average halfway, having
+	// survived absorption exp(-R/(2 L_abs)); those and the photons
+	// reflected by the liner, Reflectivity x (1 - coverage) per direct
+	// one, are then detected like light from an isotropic source at the
+	// centroid: the direct total is scaled by their detection efficiency
+	// (acceptance x attenuation) relative to that of the direct light.
+	scale := 0.0
+	if sumD > 0 && sumGE > 0 && sumDE > 0 {
+		rm := sumDR / sumD
+		fInd := -math.Expm1(-rm/r.scatLength)*math.Exp(-0.5*rm/r.absLength) + f.reflected
+		scale = fInd * sumD * (sumGE / sumG) / (sumDE / sumD) / sumGE
+	}
+	for i := range w.muI {
+		w.muI[i] *= scale
+	}
+}
+
+// edge returns, for the emission point at distance s along the track,
+// the cosine of the angle between the track and the sensor and the
+// sensor's weight: projected photocathode area over R^2 (without the
+// constant area) times acceptance and spectrum-averaged efficiency and
+// attenuation.
+func (w *Workspace) edge(d2, z, dn, un, s float64) (c, wt float64) {
+	R2 := d2 - 2*s*z + s*s
+	if R2 < 1 {
+		R2 = 1
+	}
+	R := math.Sqrt(R2)
+	c = (z - s) / R
+	ci := -(dn - s*un) / R // cosine of incidence on the inward-facing cathode
+	if ci <= 0 {
+		return c, 0
+	}
+	wt = ci / R2 * w.f.resp.acceptance(ci) * w.f.resp.attenuation(R)
+	return c, wt
+}

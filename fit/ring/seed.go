@@ -1,0 +1,158 @@
+package ring
+
+import (
+	"math"
+	"slices"
+
+	"github.com/golang/geo/r3"
+	"gonum.org/v1/gonum/optimize"
+
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// pointSeed is the vertex and time of a point source that best explains
+// the hit times: the goodness sum_i exp(-(t_i - t0 - R_i/v_g)^2 / 2 sigma^2)
+// is maximized first on a grid over the tank and then by Nelder-Mead.
+// The point found lies along the track, near where most of the light comes
+// from; the track fits move it back to the start.
+func (w *Workspace) pointSeed() (r3.Vector, float64) {
+	f := w.f
+	sigma := math.Hypot(f.tts, 1.5)
+	good := func(v r3.Vector, t0 float64) float64 {
+		var g float64
+		for _, i := range w.hits {
+			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
+			r := (w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup - t0) / sigma
+			g += math.Exp(-0.5 * r * r)
+		}
+		return g
+	}
+	res := make([]float64, len(w.hits))
+	bestT := func(v r3.Vector) float64 {
+		for k, i := range w.hits {
+			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
+			res[k] = w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
+		}
+		slices.Sort(res)
+		// densest window of width 2 sigma
+		best, bi, j := 0, 0, 0
+		for k := range res {
+			for res[k]-res[j] > 2*sigma {
+				j++
+			}
+			if k-j+1 > best {
+				best, bi = k-j+1, j
+			}
+		}
+		var s float64
+		for k := bi; k < bi+best; k++ {
+			s += res[k]
+		}
+		return s/float64(best) - 0.5*sigma
+	}
+	R, H := f.tankRadius, f.tankHalfZ
+	step := math.Max(math.Max(R, H)/6, 50)
+	var bv r3.Vector
+	bt, bg := 0.0, math.Inf(-1)
+	for x := -R + step/2; x < R; x += step {
+		for y := -R + step/2; y < R; y += step {
+			if x*x+y*y > R*R {
+				continue
+			}
+			for z := -H + step/2; z < H; z += step {
+				v := r3.Vector{X: x, Y: y, Z: z}
+				t0 := bestT(v)
+				if g := good(v, t0); g > bg {
+					bv, bt, bg = v, t0, g
+				}
+			}
+		}
+	}
+	p := optimize.Problem{Func: func(x []float64) float64 {
+		v := r3.Vector{X: x[0] * 10, Y: x[1] * 10, Z: x[2] * 10}
+		pen := 0.0
+		if d := f.det.DistanceToWall(v); d < 0 {
+			pen = d * d
+		}
+		return -good(v, x[3]) + pen
+	}}
+	r, _ := optimize.Minimize(p, []float64{bv.X / 10, bv.Y / 10, bv.Z / 10, bt},
+		&optimize.Settings{FuncEvaluations: 600, Converger: &optimize.FunctionConverge{Absolute: 1e-3, Iterations: 30}},
+		&optimize.NelderMead{SimplexSize: step / 20})
+	// A run that stopped early still holds its best point.
+	if r != nil {
+		v := r3.Vector{X: r.X[0] * 10, Y: r.X[1] * 10, Z: r.X[2] * 10}
+		if f.det.DistanceToWall(v) > 0 && -r.F >= bg {
+			bv, bt = v, r.X[3]
+		}
+	}
+	return bv, bt
+}
+
+// directionSeed finds the ring axis from vertex v: the direction about
+// which the charge of the hits is most concentrated at the Cherenkov
+// angle, searched over a spiral of directions covering the sphere and
+// refined around the best one.
+func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
+	score := w.ringScore(v)
+	const n = 2000
+	var best r3.Vector
+	bs := math.Inf(-1)
+	golden := math.Pi * (3 - math.Sqrt(5))
+	for k := 0; k < n; k++ {
+		z := 1 - (float64(k)+0.5)*2/n
+		r := math.Sqrt(1 - z*z)
+		phi := golden * float64(k)
+		u := r3.Vector{X: r * math.Cos(phi), Y: r * math.Sin(phi), Z: z}
+		if s := score(u, 0.06); s > bs {
+			best, bs = u, s
+		}
+	}
+	return w.refine(best, score)
+}
+
+// refineDirection re-aims the ring axis from a new vertex v, starting at u.
+func (w *Workspace) refineDirection(v, u r3.Vector) r3.Vector {
+	score := w.ringScore(v)
+	return w.refine(u, score)
+}
+
+// refine searches rings of shrinking opening about the best direction.
+func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float64) r3.Vector {
+	bs := score(best, 0.03)
+	for _, ang := range []float64{0.06, 0.03, 0.015, 0.007, 0.003} {
+		c := best
+		for j := 0; j < 12; j++ {
+			u := phys.Deflect(c, math.Cos(ang), float64(j)*math.Pi/6)
+			if s := score(u, 0.03); s > bs {
+				best, bs = u, s
+			}
+		}
+	}
+	return best
+}
+
+// ringScore returns the score of a ring axis seen from v: the hit charge
+// (capped at 10 pe) within a Gaussian band of the given width in cosine
+// about the Cherenkov angle.
+func (w *Workspace) ringScore(v r3.Vector) func(r3.Vector, float64) float64 {
+	f := w.f
+	cosC := 1 / f.resp.index
+	type hv struct {
+		u r3.Vector
+		q float64
+	}
+	hs := make([]hv, 0, len(w.hits))
+	for _, i := range w.hits {
+		d := r3.Vector{X: f.px[i] - v.X, Y: f.py[i] - v.Y, Z: f.pz[i] - v.Z}.Normalize()
+		hs = append(hs, hv{d, math.Min(w.hitQ[i], 10)})
+	}
+	return func(u r3.Vector, width float64) float64 {
+		var s float64
+		for _, h := range hs {
+			x := (h.u.Dot(u) - cosC) / width
+			s += h.q * math.Exp(-0.5*x*x)
+		}
+		return s
+	}
+}
