@@ -1,0 +1,43 @@
+// Command quickstart is the README's first program: simulate 10 MeV
+// electrons in the demo tank and reconstruct them.
+package main
+
+import (
+	"fmt"
+	"log"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+func main() {
+	cfg, err := sim.DemoConfig(2026) // demo tank, 30% coverage of 20 cm sensors, pure water
+	if err != nil {
+		log.Fatal(err)
+	}
+	s, err := sim.New(cfg)
+	if err != nil {
+		log.Fatal(err)
+	}
+	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	if err != nil {
+		log.Fatal(err)
+	}
+	start := r3.Vector{X: 150, Y: -80, Z: 200} // cm
+	for n := uint64(0); n < 5; n++ {
+		ev, err := s.Event(n, []phys.Particle{{PDG: phys.Electron, Pos: start, Dir: r3.Vector{Z: 1}, Ekin: 10}})
+		if err != nil {
+			log.Fatal(err)
+		}
+		r, err := f.Fit(ev.Hits)
+		if err != nil || !r.Converged {
+			fmt.Println("event", n, "not reconstructed:", err, r.Reason)
+			continue
+		}
+		fmt.Printf("event %d: %3d hits, vertex off by %5.1f cm, direction off by %4.1f deg, E = %4.1f +- %3.1f MeV\n",
+			n, len(ev.Hits), r.Vertex.Sub(start).Norm(), r.Dir.Angle(r3.Vector{Z: 1}).Degrees(), r.Energy, r.EnergyErr)
+	}
+}
