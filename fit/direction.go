@@ -61,6 +61,7 @@ func (f *Fitter) fitDirection(sc *scratch, x candidate) (r3.Vector, float64, flo
 	p := optimize.Problem{Func: func(ab []float64) float64 { return nll(tangent(seed, ab[0], ab[1])) }}
 	settings := &optimize.Settings{
 		MajorIterations: f.maxIter,
+		Runtime:         f.maxDur,
 		Converger:       &optimize.FunctionConverge{Absolute: 1e-6, Iterations: 30},
 	}
 	dir := seed

@@ -371,6 +371,7 @@ func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status
 	x0 := []float64{start.q.X, start.q.Y, start.q.Z, start.t0}
 	settings := &optimize.Settings{
 		MajorIterations:   f.maxIter,
+		Runtime:           f.maxDur,
 		GradientThreshold: 1e-3,
 		Converger:         &optimize.FunctionConverge{Absolute: 1e-7, Iterations: 10},
 	}
@@ -385,6 +386,7 @@ func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status
 	nm := &optimize.NelderMead{SimplexSize: 0.5}
 	settings = &optimize.Settings{
 		MajorIterations: 4 * f.maxIter,
+		Runtime:         f.maxDur,
 		Converger:       &optimize.FunctionConverge{Absolute: 1e-6, Iterations: 40},
 	}
 	r2, err2 := optimize.Minimize(optimize.Problem{Func: p.Func}, bestX, settings, nm)

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sync"
+	"time"
 
 	"github.com/golang/geo/r3"
 
@@ -27,6 +28,12 @@ type Config struct {
 	// MaxIterations bounds the major iterations of each optimizer stage;
 	// 0 means 200.
 	MaxIterations int
+	// MaxDuration bounds the run time of each optimizer stage; 0 means no
+	// limit. A fit stopped by either limit is marked NotConverged with
+	// the optimizer's reason (IterationLimit, RuntimeLimit). A time limit
+	// makes results depend on machine speed: use it as a guard in
+	// productions, not in regression tests.
+	MaxDuration time.Duration
 }
 
 // Fitter reconstructs low-energy events. It is built once by New, is
@@ -61,6 +68,7 @@ type Fitter struct {
 	energySigma []float64
 
 	maxIter int
+	maxDur  time.Duration
 	pool    sync.Pool
 }
 
@@ -78,6 +86,9 @@ func New(cfg Config) (*Fitter, error) {
 	}
 	if cfg.Water == nil {
 		return nil, errors.New("fit: Config.Water is nil")
+	}
+	if cfg.MaxDuration < 0 {
+		return nil, fmt.Errorf("fit: Config.MaxDuration = %v must not be negative", cfg.MaxDuration)
 	}
 	if cfg.MaxIterations < 0 {
 		return nil, fmt.Errorf("fit: Config.MaxIterations = %d must not be negative", cfg.MaxIterations)
@@ -105,6 +116,7 @@ func New(cfg Config) (*Fitter, error) {
 		light:   light,
 		vg:      light.GroupVelocity,
 		maxIter: cfg.MaxIterations,
+		maxDur:  cfg.MaxDuration,
 	}
 	if f.maxIter == 0 {
 		f.maxIter = 200
