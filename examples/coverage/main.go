@@ -33,16 +33,15 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
-	"runtime"
 	"slices"
 	"strconv"
 	"strings"
-	"sync"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -374,33 +373,6 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	return p, nil
 }
 
-// parallel runs do(i) for i in 0..n-1 on GOMAXPROCS goroutines, each with
-// its own worker state from newWorker; it stops early on cancellation.
-func parallel[W any](ctx context.Context, n int, newWorker func() W, do func(w W, i int)) error {
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for range runtime.GOMAXPROCS(0) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w := newWorker()
-			for i := range next {
-				do(w, i)
-			}
-		}()
-	}
-	var err error
-	for i := 0; i < n; i++ {
-		if err = ctx.Err(); err != nil {
-			break
-		}
-		next <- i
-	}
-	close(next)
-	wg.Wait()
-	return err
-}
-
 // fitLow reconstructs the events with the low-energy fitter and passes
 // the converged ones to add.
 func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
@@ -410,7 +382,7 @@ func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, 
 	}
 	results := make([]fit.Result, len(evs))
 	errs := make([]error, len(evs))
-	if err := parallel(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
 		results[i], errs[i] = f.Fit(evs[i].Hits)
 	}); err != nil {
 		return err
@@ -444,7 +416,7 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	}
 	recs := make([]ring.Reconstruction, len(evs))
 	errs := make([]error, len(evs))
-	if err := parallel(ctx, len(evs), rf.NewWorkspace, func(w *ring.Workspace, i int) {
+	if err := parallel.Each(ctx, len(evs), rf.NewWorkspace, func(w *ring.Workspace, i int) {
 		recs[i], errs[i] = w.Fit(evs[i].Hits, ring.Window{})
 	}); err != nil {
 		return err

@@ -3,10 +3,10 @@ package main
 import (
 	"context"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"path/filepath"
-	"runtime"
 	"strings"
 	"sync"
 
@@ -122,37 +122,10 @@ func truthOf(ev *event.Event) resolution.Sample {
 	return resolution.Sample{Vertex: p.Pos, Dir: p.Dir, Energy: p.Ekin}
 }
 
-// parallel runs do(i) for i in 0..n-1 on GOMAXPROCS goroutines, each with
-// its own worker state from newWorker; it stops early on cancellation.
-func parallel[W any](ctx context.Context, n int, newWorker func() W, do func(w W, i int)) error {
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for range runtime.GOMAXPROCS(0) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w := newWorker()
-			for i := range next {
-				do(w, i)
-			}
-		}()
-	}
-	var err error
-	for i := 0; i < n; i++ {
-		if err = ctx.Err(); err != nil {
-			break
-		}
-		next <- i
-	}
-	close(next)
-	wg.Wait()
-	return err
-}
-
 func fitLow(ctx context.Context, f *fit.Fitter, sm *sample, n float64) error {
 	res := make([]fit.Result, len(sm.events))
 	errs := make([]error, len(sm.events))
-	if err := parallel(ctx, len(sm.events), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+	if err := parallel.Each(ctx, len(sm.events), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
 		res[i], errs[i] = f.Fit(sm.events[i].Hits)
 	}); err != nil {
 		return err
@@ -195,7 +168,7 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 	if !o.quiet {
 		fmt.Fprintf(stderr, "\r%-20s 0/%d events ", label, k)
 	}
-	if err := parallel(ctx, k, rf.NewWorkspace, func(w *ring.Workspace, i int) {
+	if err := parallel.Each(ctx, k, rf.NewWorkspace, func(w *ring.Workspace, i int) {
 		recs[i], errs[i] = w.Fit(sm.events[i].Hits, ring.Window{})
 		mu.Lock()
 		done++
