@@ -8,6 +8,7 @@ import (
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
 
@@ -274,6 +275,9 @@ func (w *Workspace) lightLength(h Hypothesis, e float64) float64 {
 	return w.prof.light90
 }
 
+// timeParam is the index of the time among the minimizer's variables.
+const timeParam = 3
+
 // Parameter scales: a unit step of the minimizer's variables.
 const (
 	scaleVertex = 10.0 // cm
@@ -363,9 +367,36 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 		return res
 	}
 	fr := newFrame(seed, lo, hi)
-	obj := func(x []float64) float64 { return w.objective(h, &fr, x) }
+	// The minimizer asks for the value and the gradient at the same
+	// point: the forward-difference gradient reuses the last value and
+	// prediction instead of evaluating the likelihood there again.
+	lastX := make([]float64, NumParams)
+	lastF, haveLast := 0.0, false
+	obj := func(x []float64) float64 {
+		v := w.objective(h, &fr, x)
+		copy(lastX, x)
+		lastF, haveLast = v, true
+		return v
+	}
 	grad := func(g, x []float64) {
-		fd.Gradient(g, obj, x, &fd.Settings{Formula: fd.Forward, Step: gradStep})
+		if !haveLast || !floats.Equal(x, lastX) {
+			fd.Gradient(g, obj, x, &fd.Settings{Formula: fd.Forward, Step: gradStep})
+			return
+		}
+		// The workspace still holds the prediction at x. A step in the
+		// time alone moves every predicted time and nothing else, so
+		// its difference needs only the time terms of the hits.
+		g[timeParam] = (w.timeShiftNLL(scaleTime*gradStep) - w.timeShiftNLL(0)) / gradStep
+		f0 := lastF
+		for j := range x {
+			if j == timeParam {
+				continue
+			}
+			xj := x[j]
+			x[j] = xj + gradStep
+			g[j] = (obj(x) - f0) / gradStep
+			x[j] = xj
+		}
 	}
 	x0 := make([]float64, NumParams)
 	settings := &optimize.Settings{

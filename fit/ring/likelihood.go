@@ -104,11 +104,20 @@ func (w *Workspace) nll(h Hypothesis, tr Track) float64 {
 		}
 		sum += ct.nllNone(w.muD[i] + w.muI[i] + f.darkGate)
 	}
-	muN := math.Max(f.darkRate*w.window, 1e-9)
 	for _, i := range w.hits {
-		mD, mI := w.muD[i], w.muI[i]
-		sum += ct.nllHit(w.hitQ[i], mD+mI+f.darkGate)
-		sum += w.timeNLL(w.hitT[i]-w.tDir[i], w.sgT[i], mD, mI, muN)
+		sum += ct.nllHit(w.hitQ[i], w.muD[i]+w.muI[i]+f.darkGate)
+	}
+	return sum + w.timeShiftNLL(0)
+}
+
+// timeShiftNLL is the time part of nll for the current prediction with
+// every predicted time later by shift (ns): the likelihood of a time
+// step, which leaves the charges unchanged.
+func (w *Workspace) timeShiftNLL(shift float64) float64 {
+	muN := math.Max(w.f.darkRate*w.window, 1e-9)
+	var sum float64
+	for _, i := range w.hits {
+		sum += w.timeNLL(w.hitT[i]-w.tDir[i]-shift, w.sgT[i], w.muD[i], w.muI[i], muN)
 	}
 	return sum
 }

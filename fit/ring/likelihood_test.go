@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"github.com/conelight/conelight/pmt"
 )
 
@@ -16,19 +18,25 @@ import (
 // on the 0.05 pe grid.
 func TestChargeNormalization(t *testing.T) {
 	m := pmt.Medium()
-	ct, err := newChargeTable(&m)
+	for _, sigma := range []float64{0, modelSigma} {
+		testChargeNormalization(t, &m, sigma)
+	}
+}
+
+func testChargeNormalization(t *testing.T, m *pmt.Model, sigma float64) {
+	ct, err := newChargeTable(m, sigma)
 	if err != nil {
 		t.Fatal(err)
 	}
 	for _, mu := range []float64{0.01, 0.3, 1, 3, 10, 20} {
 		sum := math.Exp(-ct.nllNone(mu))
 		const h = cqStep
-		for q := m.Threshold; q < cqHi-h; q += h {
+		for q := m.Threshold; q < 150; q += h { // beyond 40 pe the Gaussian tail
 			sum += 0.5 * h * (math.Exp(-ct.nllHit(q, mu)) + math.Exp(-ct.nllHit(q+h, mu)))
 		}
 		tol := 2e-3 + cLogMuDx*cLogMuDx/8*math.Max(mu/2, 1)
 		if math.Abs(sum-1) > tol {
-			t.Errorf("mu %g: total probability %.5f, want 1", mu, sum)
+			t.Errorf("sigma %g, mu %g: total probability %.5f, want 1", sigma, mu, sum)
 		}
 	}
 }
@@ -38,7 +46,7 @@ func TestChargeNormalization(t *testing.T) {
 // the same spectrum).
 func TestChargeSmallMu(t *testing.T) {
 	m := pmt.Medium()
-	ct, err := newChargeTable(&m)
+	ct, err := newChargeTable(&m, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -54,49 +62,62 @@ func TestChargeSmallMu(t *testing.T) {
 // and sum n single-pe charges with pmt.SPE.Sample; compare P(no hit)
 // and the probability of charge bins with the table, each within 4
 // binomial standard errors plus 2% of the bin probability for the
-// moment-matched convolution of the two single-pe components.
+// moment-matched convolution of the two single-pe components. With a
+// model width sigma the mean is first drawn from mu times a Gamma
+// variable of mean 1 and relative width sigma (gonum distuv.Gamma), the
+// mixture the negative-binomial table must reproduce.
 func TestChargeMonteCarlo(t *testing.T) {
 	m := pmt.Medium()
-	ct, err := newChargeTable(&m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	rng := rand.New(rand.NewPCG(5, 6))
-	const N = 200000
-	mu := 3.0
-	edges := []float64{0.5, 1, 2, 3, 4, 6}
-	counts := make([]float64, len(edges)-1)
-	none := 0.0
-	for i := 0; i < N; i++ {
-		n := poisson(rng, mu)
-		q := 0.0
-		for j := 0; j < n; j++ {
-			q += m.SPE.Sample(rng)
+	for _, sigma := range []float64{0, modelSigma} {
+		ct, err := newChargeTable(&m, sigma)
+		if err != nil {
+			t.Fatal(err)
 		}
-		if q < m.Threshold {
-			none++
-			continue
+		rng := rand.New(rand.NewPCG(5, 6))
+		var gamma distuv.Gamma
+		if sigma > 0 {
+			gamma = distuv.Gamma{Alpha: 1 / (sigma * sigma), Beta: 1 / (sigma * sigma), Src: rand.NewPCG(7, 8)}
 		}
-		for b := 0; b+1 < len(edges); b++ {
-			if q >= edges[b] && q < edges[b+1] {
-				counts[b]++
+		const N = 200000
+		mu := 3.0
+		edges := []float64{0.5, 1, 2, 3, 4, 6}
+		counts := make([]float64, len(edges)-1)
+		none := 0.0
+		for i := 0; i < N; i++ {
+			mean := mu
+			if sigma > 0 {
+				mean *= gamma.Rand()
+			}
+			n := poisson(rng, mean)
+			q := 0.0
+			for j := 0; j < n; j++ {
+				q += m.SPE.Sample(rng)
+			}
+			if q < m.Threshold {
+				none++
+				continue
+			}
+			for b := 0; b+1 < len(edges); b++ {
+				if q >= edges[b] && q < edges[b+1] {
+					counts[b]++
+				}
 			}
 		}
-	}
-	check := func(name string, k, p float64) {
-		se := math.Sqrt(p * (1 - p) / N)
-		if math.Abs(k/N-p) > 4*se+0.02*p {
-			t.Errorf("%s: Monte Carlo %.5f, table %.5f (se %.5f)", name, k/N, p, se)
+		check := func(name string, k, p float64) {
+			se := math.Sqrt(p * (1 - p) / N)
+			if math.Abs(k/N-p) > 4*se+0.02*p {
+				t.Errorf("sigma %g: %s: Monte Carlo %.5f, table %.5f (se %.5f)", sigma, name, k/N, p, se)
+			}
 		}
-	}
-	check("P(no hit)", none, math.Exp(-ct.nllNone(mu)))
-	for b := 0; b+1 < len(edges); b++ {
-		var p float64
-		const h = 0.01
-		for q := edges[b]; q < edges[b+1]-h/2; q += h {
-			p += h * math.Exp(-ct.nllHit(q+h/2, mu))
+		check("P(no hit)", none, math.Exp(-ct.nllNone(mu)))
+		for b := 0; b+1 < len(edges); b++ {
+			var p float64
+			const h = 0.01
+			for q := edges[b]; q < edges[b+1]-h/2; q += h {
+				p += h * math.Exp(-ct.nllHit(q+h/2, mu))
+			}
+			check("charge bin", counts[b], p)
 		}
-		check("charge bin", counts[b], p)
 	}
 }
 

@@ -156,7 +156,7 @@ func New(cfg Config) (*Fitter, error) {
 	if err != nil {
 		return nil, err
 	}
-	ct, err := newChargeTable(&cfg.Sensor)
+	ct, err := newChargeTable(&cfg.Sensor, modelSigma)
 	if err != nil {
 		return nil, err
 	}
