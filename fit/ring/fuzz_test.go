@@ -1,0 +1,76 @@
+package ring
+
+import (
+	"encoding/binary"
+	"math"
+	"testing"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// fuzzHits decodes arbitrary bytes into hits, 20 bytes a hit (sensor
+// int32, time and charge as float64 bits), so that NaN, Inf, negative and
+// out-of-range values are all reachable.
+func fuzzHits(b []byte) []pmt.Hit {
+	var hits []pmt.Hit
+	for len(b) >= 20 && len(hits) < 3000 {
+		hits = append(hits, pmt.Hit{
+			Sensor: int(int32(binary.LittleEndian.Uint32(b))),
+			Time:   math.Float64frombits(binary.LittleEndian.Uint64(b[4:])),
+			Charge: math.Float64frombits(binary.LittleEndian.Uint64(b[12:])),
+		})
+		b = b[20:]
+	}
+	return hits
+}
+
+func fuzzBytes(hits []pmt.Hit) []byte {
+	var b []byte
+	for _, h := range hits {
+		b = binary.LittleEndian.AppendUint32(b, uint32(int32(h.Sensor)))
+		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(h.Time))
+		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(h.Charge))
+	}
+	return b
+}
+
+// FuzzFit feeds the single-ring fitter arbitrary hit lists: it must never
+// panic, and a hypothesis marked converged must hold only finite numbers.
+// The evaluation budget is small so that each input is cheap.
+func FuzzFit(f *testing.F) {
+	d := demoTank(f)
+	fitter, err := New(Config{Detector: d.cfg.Detector, Sensor: d.cfg.Sensor, Water: d.cfg.Water, Liner: d.cfg.Liner,
+		SkipUncertainties: true, MaxEvaluations: 60})
+	if err != nil {
+		f.Fatal(err)
+	}
+	ev := simulate(f, d.sim, 1, phys.MuonMinus, r3.Vector{X: 100}, r3.Vector{Y: 1}, 300)
+	f.Add(fuzzBytes(ev.Hits))
+	f.Add(fuzzBytes([]pmt.Hit{{Sensor: 0, Time: 1, Charge: 1}}))
+	f.Add(fuzzBytes([]pmt.Hit{{Sensor: 2, Time: math.NaN(), Charge: 3}, {Sensor: -5, Time: 1, Charge: math.Inf(1)}}))
+	f.Add([]byte{})
+	ws := fitter.NewWorkspace()
+	f.Fuzz(func(t *testing.T, b []byte) {
+		rec, err := ws.Fit(fuzzHits(b), Window{})
+		if err != nil {
+			return
+		}
+		for _, r := range []Result{rec.Electron, rec.Muon} {
+			if !r.Converged {
+				continue
+			}
+			tr := r.Track
+			for i, v := range []float64{tr.Vertex.X, tr.Vertex.Y, tr.Vertex.Z, tr.Time, tr.Dir.X, tr.Dir.Y, tr.Dir.Z, tr.Ekin, r.Momentum, r.NLL} {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("converged %v result has non-finite value %d: %+v", r.Hypothesis, i, r)
+				}
+			}
+		}
+		if math.IsNaN(rec.LLR) && (rec.Electron.Converged && rec.Muon.Converged) {
+			t.Fatalf("NaN likelihood ratio with both hypotheses converged")
+		}
+	})
+}
