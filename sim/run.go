@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math/rand/v2"
 	"sync"
 	"time"
 
@@ -141,7 +142,7 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 				var r result
 				r.i = i
 				var info gen.Info
-				prims, info, r.err = g.Generate(num, rng, prims[:0])
+				prims, info, r.err = generate(g, num, rng, prims[:0])
 				if r.err != nil {
 					r.err = fmt.Errorf("sim: event %d: generator: %w", num, r.err)
 				} else if r.ev, r.err = w.simulate(num, rng, prims); r.err == nil {
@@ -218,4 +219,16 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 		return ctx.Err()
 	}
 	return nil
+}
+
+// generate calls the generator and turns a panic inside it (a bug in a
+// user's generator) into an error for that event, so that one bad event
+// ends the run cleanly instead of killing an overnight production.
+func generate(g gen.Generator, number uint64, rng *rand.Rand, dst []phys.Particle) (prims []phys.Particle, info gen.Info, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("generator panicked: %v", p)
+		}
+	}()
+	return g.Generate(number, rng, dst)
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"strings"
 	"testing"
 
 	"github.com/golang/geo/r3"
@@ -181,5 +182,32 @@ func TestRunNeutrinoTruth(t *testing.T) {
 	})
 	if err != nil || n != 6 {
 		t.Fatalf("run: %v, %d events", err, n)
+	}
+}
+
+// panickyGen panics at event 3.
+type panickyGen struct{ isoElectrons }
+
+func (g panickyGen) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
+	if number == 3 {
+		panic("broken generator")
+	}
+	return g.isoElectrons.Generate(number, rng, dst)
+}
+
+func TestRunGeneratorPanic(t *testing.T) {
+	// A panic in a user's generator ends the run with an error naming the
+	// event, after the events before it were handed out in order.
+	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
+	var got []uint64
+	err := s.Run(context.Background(), panickyGen{isoElectrons{5}}, RunOptions{Count: 10}, func(ev *event.Event) error {
+		got = append(got, ev.Number)
+		return nil
+	})
+	if err == nil || !strings.Contains(err.Error(), "event 3") || !strings.Contains(err.Error(), "panicked") {
+		t.Fatalf("error %v", err)
+	}
+	if !reflect.DeepEqual(got, []uint64{0, 1, 2}) {
+		t.Errorf("events before the panic: %v", got)
 	}
 }
