@@ -8,30 +8,19 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// largeConfig is the large reference tank: 40% coverage of the large
-// sensor class (about 11,000 sensors), pure water.
+// largeConfig is LargeConfig with seed 1.
 func largeConfig(b testing.TB) Config {
 	b.Helper()
-	m := pmt.Large()
-	det, err := geom.Layout(geom.LargeTank(), m.CathodeDiameter, 0.40)
+	cfg, err := LargeConfig(1)
 	if err != nil {
 		b.Fatal(err)
 	}
-	w, err := optics.NewWater(optics.DefaultWaterConfig())
-	if err != nil {
-		b.Fatal(err)
-	}
-	trig := DefaultTrigger()
-	trig.Threshold = 25 // ~11,000 sensors at 4 kHz give ~9 dark hits per 200 ns
-	return Config{Detector: det, Sensor: m, Water: w, Liner: optics.DefaultLiner(), Trigger: trig, Seed: 1}
+	return cfg
 }
 
 var eventCases = []struct {

@@ -5,29 +5,19 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// largeConfig is the large reference tank: 40% coverage of the large
-// sensor class, pure water, trigger threshold 25 hits.
+// largeConfig is sim.LargeConfig on one worker.
 func largeConfig(tb testing.TB, seed uint64) sim.Config {
 	tb.Helper()
-	m := pmt.Large()
-	det, err := geom.Layout(geom.LargeTank(), m.CathodeDiameter, 0.40)
+	cfg, err := sim.LargeConfig(seed)
 	if err != nil {
 		tb.Fatal(err)
 	}
-	w, err := optics.NewWater(optics.DefaultWaterConfig())
-	if err != nil {
-		tb.Fatal(err)
-	}
-	trig := sim.DefaultTrigger()
-	trig.Threshold = 25
-	return sim.Config{Detector: det, Sensor: m, Water: w, Liner: optics.DefaultLiner(), Trigger: trig, Seed: seed, Workers: 1}
+	cfg.Workers = 1
+	return cfg
 }
 
 func setup(tb testing.TB, cfg sim.Config, skipErrors bool) (*sim.Simulator, *Fitter) {

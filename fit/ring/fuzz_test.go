@@ -1,41 +1,15 @@
 package ring
 
 import (
-	"encoding/binary"
 	"math"
 	"testing"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit/internal/fuzzhits"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// fuzzHits decodes arbitrary bytes into hits, 20 bytes a hit (sensor
-// int32, time and charge as float64 bits), so that NaN, Inf, negative and
-// out-of-range values are all reachable.
-func fuzzHits(b []byte) []pmt.Hit {
-	var hits []pmt.Hit
-	for len(b) >= 20 && len(hits) < 3000 {
-		hits = append(hits, pmt.Hit{
-			Sensor: int(int32(binary.LittleEndian.Uint32(b))),
-			Time:   math.Float64frombits(binary.LittleEndian.Uint64(b[4:])),
-			Charge: math.Float64frombits(binary.LittleEndian.Uint64(b[12:])),
-		})
-		b = b[20:]
-	}
-	return hits
-}
-
-func fuzzBytes(hits []pmt.Hit) []byte {
-	var b []byte
-	for _, h := range hits {
-		b = binary.LittleEndian.AppendUint32(b, uint32(int32(h.Sensor)))
-		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(h.Time))
-		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(h.Charge))
-	}
-	return b
-}
 
 // FuzzFit feeds the single-ring fitter arbitrary hit lists: it must never
 // panic, and a hypothesis marked converged must hold only finite numbers.
@@ -48,13 +22,17 @@ func FuzzFit(f *testing.F) {
 		f.Fatal(err)
 	}
 	ev := simulate(f, d.sim, 1, phys.MuonMinus, r3.Vector{X: 100}, r3.Vector{Y: 1}, 300)
-	f.Add(fuzzBytes(ev.Hits))
-	f.Add(fuzzBytes([]pmt.Hit{{Sensor: 0, Time: 1, Charge: 1}}))
-	f.Add(fuzzBytes([]pmt.Hit{{Sensor: 2, Time: math.NaN(), Charge: 3}, {Sensor: -5, Time: 1, Charge: math.Inf(1)}}))
+	f.Add(fuzzhits.Encode(ev.Hits))
+	f.Add(fuzzhits.Encode([]pmt.Hit{{Sensor: 0, Time: 1, Charge: 1}}))
+	f.Add(fuzzhits.Encode([]pmt.Hit{{Sensor: 2, Time: math.NaN(), Charge: 3}, {Sensor: -5, Time: 1, Charge: math.Inf(1)}}))
 	f.Add([]byte{})
 	ws := fitter.NewWorkspace()
 	f.Fuzz(func(t *testing.T, b []byte) {
-		rec, err := ws.Fit(fuzzHits(b), Window{})
+		hits := fuzzhits.Decode(b)
+		if len(hits) > 3000 {
+			hits = hits[:3000]
+		}
+		rec, err := ws.Fit(hits, Window{})
 		if err != nil {
 			return
 		}

@@ -14,26 +14,20 @@ import (
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
 // LargeConfig is the large reference tank lined at 40% coverage with the
-// large sensor class, pure water, the default liner and trigger.
+// large sensor class, pure water, the default liner and trigger
+// (sim.LargeConfig with the 10-hit default trigger).
 func LargeConfig(seed uint64) (sim.Config, error) {
-	m := pmt.Large()
-	det, err := geom.Layout(geom.LargeTank(), m.CathodeDiameter, 0.40)
-	if err != nil {
-		return sim.Config{}, err
-	}
-	w, err := optics.NewWater(optics.DefaultWaterConfig())
-	if err != nil {
-		return sim.Config{}, err
-	}
-	return sim.Config{Detector: det, Sensor: m, Water: w, Liner: optics.DefaultLiner(), Trigger: sim.DefaultTrigger(), Seed: seed}, nil
+	cfg, err := sim.LargeConfig(seed)
+	// The embedded large-tank tables were made with the default 10-hit
+	// trigger, not sim.LargeConfig's 25 hits; keep them reproducible.
+	cfg.Trigger = sim.DefaultTrigger()
+	return cfg, err
 }
 
 // Electron draws an electron of kinetic energy e (MeV) uniform in the
