@@ -4,13 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/golang/geo/r3"
-	"gonum.org/v1/gonum/diff/fd"
-	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/optimize"
 
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
@@ -119,17 +115,6 @@ func (c PIDCut) Best(r *Reconstruction) *Result {
 // electron or the next event.
 const promptBefore = 60
 
-// Minimizer settings, in the scaled variables of frame (a unit is about
-// one standard deviation of a 500 MeV track in the demo tank): forward
-// difference step of the gradient, stop when the gradient or the
-// improvement over two iterations is this small in log likelihood.
-const (
-	gradStep      = 2e-3
-	gradThreshold = 0.02
-	convAbs       = 0.1
-	convIters     = 2
-)
-
 // Fit reconstructs an event from its hits: point seed, ring direction,
 // then the electron and the muon fits. win is the readout window (the
 // zero Window: the span of the hits). An event the fit cannot use (no
@@ -237,10 +222,13 @@ func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector
 	bestNLL := math.Inf(1)
 	// The point fit lands where most light comes from: near the shower
 	// maximum of an electron, mid-track for a muon. Try start points
-	// behind it, re-aiming the ring at each.
-	for _, back := range []float64{0, 0.2, 0.4, 0.6, 0.8, 1.0} {
+	// behind it, re-aiming the ring at each; the energy that matches the
+	// charge hardly depends on the start, so after the first candidate
+	// one update from the last energy suffices.
+	iters := 3
+	for _, back := range []float64{0, 0.25, 0.5, 0.75, 1.0} {
 		tr := Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
-		for it := 0; it < 3; it++ {
+		for it := 0; it < iters; it++ {
 			sh := back * w.lightLength(h, tr.Ekin)
 			tr.Vertex = v.Sub(u.Mul(sh))
 			if f.det.DistanceToWall(tr.Vertex) < 1 {
@@ -263,6 +251,7 @@ func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector
 			}
 			tr.Ekin = min(max(tr.Ekin*q/p, lo), hi)
 		}
+		iters = 1
 		if n := w.nll(h, tr); n < bestNLL {
 			best, bestNLL = tr, n
 		}
@@ -326,19 +315,7 @@ func (fr *frame) track(x []float64) (Track, float64) {
 // objective is the likelihood with smooth walls at the tank surface and
 // the ends of the energy range.
 func (w *Workspace) objective(h Hypothesis, fr *frame, x []float64) float64 {
-	tr, eOut := fr.track(x)
-	for _, xi := range x {
-		if !finite(xi) {
-			return math.MaxFloat64 / 4
-		}
-	}
-	pen := 1e4 * eOut
-	if d := w.f.det.DistanceToWall(tr.Vertex); d < 0 {
-		// Evaluate at the nearest point inside and add a steep wall.
-		tr.Vertex = w.pullInside(tr.Vertex)
-		pen += 1e3 * (1 + d*d)
-	}
-	return w.nll(h, tr) + pen
+	return w.evalTerms(h, fr, x, nil)
 }
 
 // pullInside moves p onto the sensor surface's inside along the line to
@@ -367,59 +344,14 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 		return res
 	}
 	fr := newFrame(seed, lo, hi)
-	// The minimizer asks for the value and the gradient at the same
-	// point: the forward-difference gradient reuses the last value and
-	// prediction instead of evaluating the likelihood there again.
-	lastX := make([]float64, NumParams)
-	lastF, haveLast := 0.0, false
-	obj := func(x []float64) float64 {
-		v := w.objective(h, &fr, x)
-		copy(lastX, x)
-		lastF, haveLast = v, true
-		return v
-	}
-	grad := func(g, x []float64) {
-		if !haveLast || !floats.Equal(x, lastX) {
-			fd.Gradient(g, obj, x, &fd.Settings{Formula: fd.Forward, Step: gradStep})
-			return
-		}
-		// The workspace still holds the prediction at x. A step in the
-		// time alone moves every predicted time and nothing else, so
-		// its difference needs only the time terms of the hits.
-		g[timeParam] = (w.timeShiftNLL(scaleTime*gradStep) - w.timeShiftNLL(0)) / gradStep
-		f0 := lastF
-		for j := range x {
-			if j == timeParam {
-				continue
-			}
-			xj := x[j]
-			x[j] = xj + gradStep
-			g[j] = (obj(x) - f0) / gradStep
-			x[j] = xj
-		}
-	}
-	x0 := make([]float64, NumParams)
-	settings := &optimize.Settings{
-		FuncEvaluations:   f.maxEval,
-		GradientThreshold: gradThreshold,
-		Converger:         &optimize.FunctionConverge{Absolute: convAbs, Iterations: convIters},
-	}
-	// A simplex search first: robust against the kinks of the tables
-	// far from the minimum; then quasi-Newton to polish.
-	t1 := seed
-	r, err := optimize.Minimize(optimize.Problem{Func: obj, Grad: grad}, x0, settings, &optimize.BFGS{})
+	x, fx, ok, why := w.minimizeScoring(h, &fr)
 	res.Evaluations = w.evals
-	if r == nil {
-		res.Reason = fmt.Sprintf("minimizer: %v", err)
-		res.Track = t1
-		return res
-	}
-	best, eOut := fr.track(r.X)
+	best, eOut := fr.track(x)
 	res.Track = best
 	res.Momentum = phys.Momentum(best.Ekin, h.Mass())
-	res.NLL = r.F
+	res.NLL = fx
 	switch {
-	case !finite(r.F):
+	case !finite(fx):
 		res.Reason = "likelihood not finite"
 		return res
 	case eOut > 0 || best.Ekin <= lo*(1+1e-6) || best.Ekin >= hi*(1-1e-6):
@@ -428,8 +360,8 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 	case f.det.DistanceToWall(best.Vertex) < 0:
 		res.Reason = fmt.Sprintf("vertex %v outside the tank", best.Vertex)
 		return res
-	case err != nil && !acceptableStatus(r.Status) && !isLinesearchFailure(r.Status, err) && r.Status != optimize.IterationLimit:
-		res.Reason = fmt.Sprintf("minimizer: %v (%v)", err, r.Status)
+	case !ok:
+		res.Reason = "minimizer: " + why
 		return res
 	}
 	res.NLL = w.nll(h, best)
@@ -452,17 +384,15 @@ func (w *Workspace) addUncertainties(res *Result) {
 	w.evals = res.Evaluations
 	// Hessian in the scaled variables about the fitted track.
 	fr := newFrame(best, lo, hi)
-	obj := func(x []float64) float64 { return w.objective(h, &fr, x) }
-	x0 := make([]float64, NumParams)
 	// The tables are linear between nodes, so the curvature is measured
 	// over steps of a fraction of a standard deviation; a wider stencil
 	// is tried when kinks spoil the first.
-	var hess mat.SymDense
+	var curv *curvature
 	var ch mat.Cholesky
 	ok := false
 	for _, step := range []float64{0.25, 0.6} {
-		fd.Hessian(&hess, obj, x0, &fd.Settings{Formula: fd.Central, Step: step})
-		if ok = ch.Factorize(&hess); ok {
+		curv = w.curvatureAt(h, &fr, step)
+		if ok = ch.Factorize(&curv.hess); ok {
 			break
 		}
 	}
@@ -478,7 +408,7 @@ func (w *Workspace) addUncertainties(res *Result) {
 	}
 	res.Cov = fr.physCov(&cov)
 	res.Errors = errorsFrom(&res.Cov, h, best.Ekin)
-	res.CramerRao = w.cramerRao(h, best)
+	res.CramerRao = w.cramerRao(h, best, curv)
 	res.Evaluations = w.evals
 	for _, v := range []float64{res.Errors.Vertex.X, res.Errors.Vertex.Y, res.Errors.Vertex.Z, res.Errors.Time,
 		res.Errors.Direction, res.Errors.Ekin, res.CramerRao.Direction, res.CramerRao.Ekin} {
@@ -489,21 +419,6 @@ func (w *Workspace) addUncertainties(res *Result) {
 		}
 	}
 	res.ErrorsValid = true
-}
-
-// isLinesearchFailure reports the end of a quasi-Newton run whose line
-// search can make no more progress: at the noise floor of the tabulated
-// likelihood this is a minimum, which the Hessian check then confirms.
-func isLinesearchFailure(s optimize.Status, err error) bool {
-	return s == optimize.Failure && err != nil && strings.Contains(err.Error(), "linesearch")
-}
-
-func acceptableStatus(s optimize.Status) bool {
-	switch s {
-	case optimize.FunctionConvergence, optimize.GradientThreshold, optimize.StepConvergence, optimize.FunctionThreshold:
-		return true
-	}
-	return false
 }
 
 // physCov converts a covariance of the minimizer's variables about the
@@ -555,28 +470,13 @@ func errorsFrom(cov *[NumParams][NumParams]float64, h Hypothesis, e float64) Err
 // expected Fisher information sum_i (dmu_i/dtheta)^T (dmu_i/dtheta) / mu_i
 // of Poisson photoelectron counts plus, for each sensor in proportion to
 // its hit probability, (dt_i/dtheta)^T (dt_i/dtheta) / sigma_i^2 of its
-// time, with derivatives by central differences.
-func (w *Workspace) cramerRao(h Hypothesis, tr Track) Errors {
+// time, with the derivatives of the predictions that came with the
+// Hessian c.
+func (w *Workspace) cramerRao(h Hypothesis, tr Track, c *curvature) Errors {
 	f := w.f
 	fr := newFrame(tr, f.energyLo[h], f.energyHi[h])
 	n := f.n
-	dmu := make([][]float64, NumParams)
-	dt := make([][]float64, NumParams)
-	x := make([]float64, NumParams)
-	const step = 0.05
-	for j := 0; j < NumParams; j++ {
-		dmu[j], dt[j] = make([]float64, n), make([]float64, n)
-		for _, sgn := range []float64{1, -1} {
-			x[j] = sgn * step
-			t, _ := fr.track(x)
-			w.predict(h, t)
-			for i := 0; i < n; i++ {
-				dmu[j][i] += sgn * (w.muD[i] + w.muI[i]) / (2 * step)
-				dt[j][i] += sgn * w.tDir[i] / (2 * step)
-			}
-		}
-		x[j] = 0
-	}
+	dmu, dt := c.dmu, c.dt
 	w.predict(h, tr)
 	info := mat.NewSymDense(NumParams, nil)
 	for i := 0; i < n; i++ {
@@ -601,6 +501,6 @@ func (w *Workspace) cramerRao(h Hypothesis, tr Track) Errors {
 	if ch.InverseTo(&cov) != nil {
 		return Errors{}
 	}
-	c := fr.physCov(&cov)
-	return errorsFrom(&c, h, tr.Ekin)
+	pc := fr.physCov(&cov)
+	return errorsFrom(&pc, h, tr.Ekin)
 }

@@ -95,26 +95,48 @@ func (w *Workspace) restrict(lo, hi float64) int {
 func (w *Workspace) nll(h Hypothesis, tr Track) float64 {
 	w.evals++
 	w.predict(h, tr)
+	return w.sensorTerms(nil)
+}
+
+// sensorTerms is nll for the current prediction as a sum over the live
+// sensors: the charge term of every sensor plus the time term of a hit
+// one. When terms is not nil it receives each sensor's share (zero for
+// dead sensors), from which the fit takes the per-sensor scores.
+func (w *Workspace) sensorTerms(terms []float64) float64 {
 	f := w.f
 	ct := f.charge
 	var sum float64
 	for i := 0; i < f.n; i++ {
-		if f.dead[i] || w.hitQ[i] >= 0 {
-			continue
+		var v float64
+		if !f.dead[i] && w.hitQ[i] < 0 {
+			v = ct.nllNone(w.muD[i] + w.muI[i] + f.darkGate)
 		}
-		sum += ct.nllNone(w.muD[i] + w.muI[i] + f.darkGate)
+		sum += v
+		if terms != nil {
+			terms[i] = v
+		}
 	}
+	muN := w.darkMean()
 	for _, i := range w.hits {
-		sum += ct.nllHit(w.hitQ[i], w.muD[i]+w.muI[i]+f.darkGate)
+		v := ct.nllHit(w.hitQ[i], w.muD[i]+w.muI[i]+f.darkGate) +
+			w.timeNLL(w.hitT[i]-w.tDir[i], w.sgT[i], w.muD[i], w.muI[i], muN)
+		sum += v
+		if terms != nil {
+			terms[i] = v
+		}
 	}
-	return sum + w.timeShiftNLL(0)
+	return sum
 }
+
+// darkMean is the mean number of dark hits of a sensor over the readout
+// window, floored so that the time mixture keeps a noise component.
+func (w *Workspace) darkMean() float64 { return math.Max(w.f.darkRate*w.window, 1e-9) }
 
 // timeShiftNLL is the time part of nll for the current prediction with
 // every predicted time later by shift (ns): the likelihood of a time
 // step, which leaves the charges unchanged.
 func (w *Workspace) timeShiftNLL(shift float64) float64 {
-	muN := math.Max(w.f.darkRate*w.window, 1e-9)
+	muN := w.darkMean()
 	var sum float64
 	for _, i := range w.hits {
 		sum += w.timeNLL(w.hitT[i]-w.tDir[i]-shift, w.sgT[i], w.muD[i], w.muI[i], muN)

@@ -108,6 +108,7 @@ type Fitter struct {
 	energyLo     [2]float64
 	energyHi     [2]float64
 	tanCherenkov float64
+	farDistance  float64 // farDistance, a field so that tests can move it
 }
 
 // electronTimeSigma and muonTimeSigma are the spread (ns) of the emission time about the
@@ -203,6 +204,7 @@ func New(cfg Config) (*Fitter, error) {
 		f.energyLo[k], f.energyHi[k] = st.energyRange()
 	}
 	f.tanCherenkov = math.Sqrt(resp.index*resp.index - 1)
+	f.farDistance = farDistance
 	return f, nil
 }
 
@@ -234,6 +236,119 @@ type Workspace struct {
 	hits       []int // hit sensors
 	window     float64
 	evals      int
+	score      scoreScratch
+	grid       stepGrid
+}
+
+// farDistance is the distance from the vertex, in units of the light's
+// length inside the tank, beyond which the geometry of a sensor's direct
+// light (the cosine to the track and the sensor's weight) is computed
+// exactly at every other step edge only and interpolated linearly
+// between: seen from there both change smoothly along the track, so the
+// interpolated sum differs from the exact one by a small fraction of a
+// percent (TestFarSensors), for about two thirds of the cost.
+const farDistance = 5
+
+// stepGrid is the integration along the track: the step edges (cm from
+// the vertex) and their squares, each step's covered fraction with the
+// trapezoid's 1/2, and the profile of each step.
+type stepGrid struct {
+	n             int
+	edges, edges2 [nSteps + 1]float64
+	frac          [nSteps]float64
+	cum, dens     []float64
+}
+
+func (g *stepGrid) set(ds, lim float64, n int, cum, dens []float64) {
+	g.n, g.cum, g.dens = n, cum, dens
+	for k := 0; k <= n; k++ {
+		g.edges[k] = math.Min(float64(k)*ds, lim)
+		g.edges2[k] = g.edges[k] * g.edges[k]
+		if k > 0 {
+			g.frac[k-1] = 0.5 * (g.edges[k] - g.edges[k-1]) / ds
+		}
+	}
+}
+
+// direct is the direct light (without the constant cathode-area factor)
+// at a sensor at squared distance d2 from the vertex, z along the track,
+// dn along its normal, the track's cosine to the normal un; far
+// interpolates the geometry at odd edges (see farDistance). This loop is
+// the hot path of the fit: the geometry is inlined, one exact edge per
+// pass.
+func (g *stepGrid) direct(d2, z, dn, un float64, far bool, accT, attT []float64, invAttStep float64) float64 {
+	n := g.n
+	var mu float64
+	// The previous edge: cosine, its uniform-grid cell, weight.
+	var cA, rA, wA float64
+	var jA int
+	for e := -1; e < n; {
+		// The next exact edge: the first, then one or (far) two on.
+		next := e + 1
+		if far && e >= 0 && e+2 <= n {
+			next = e + 2
+		}
+		s := g.edges[next]
+		R2 := d2 - 2*s*z + g.edges2[next]
+		if R2 < 1 {
+			R2 = 1
+		}
+		invR := 1 / math.Sqrt(R2)
+		R := R2 * invR
+		c := (z - s) * invR
+		ci := (s*un - dn) * invR // incidence cosine on the inward-facing cathode
+		var wt float64
+		if ci > 0 {
+			// acceptance and attenuation tables, linear
+			xa := ci * accN
+			ka := int(xa)
+			var acc float64
+			if ka >= accN {
+				acc = accT[accN]
+			} else {
+				acc = accT[ka] + (xa-float64(ka))*(accT[ka+1]-accT[ka])
+			}
+			xr := R * invAttStep
+			kr := int(xr)
+			var att float64
+			if kr >= len(attT)-1 {
+				att = attT[len(attT)-1]
+			} else {
+				att = attT[kr] + (xr-float64(kr))*(attT[kr+1]-attT[kr])
+			}
+			wt = ci * invR * invR * acc * att
+		}
+		j, rc := cosCell(c)
+		switch {
+		case e < 0:
+			// the first edge: nothing to integrate yet
+		case next == e+2:
+			cm, wm := 0.5*(cA+c), 0.5*(wA+wt)
+			jm, rm := cosCell(cm)
+			mu += g.stepLight(e, cA, rA, jA, cm, rm, jm, wA+wm)
+			mu += g.stepLight(e+1, cm, rm, jm, c, rc, j, wm+wt)
+		default:
+			mu += g.stepLight(e, cA, rA, jA, c, rc, j, wA+wt)
+		}
+		cA, rA, jA, wA = c, rc, j, wt
+		e = next
+	}
+	return mu
+}
+
+// stepLight is the light of step km seen at the cosines a (cell ja,
+// offset ra) and b at its two edges, times the summed weight of the two
+// edges: the step's count between the two cosines over their difference.
+func (g *stepGrid) stepLight(km int, ca, ra float64, ja int, cb, rb float64, jb int, wsum float64) float64 {
+	// No test of wsum > 0: a zero weight gives zero light. Equal cosines
+	// (a sensor on the track's line) take the density of their cell.
+	d := g.dens[km*uniNC:]
+	gk := d[ja]
+	if dc := cb - ca; dc > 1e-6 || dc < -1e-6 {
+		c := g.cum[km*(uniNC+1):]
+		gk = (c[jb] + rb*d[jb] - c[ja] - ra*d[ja]) / dc
+	}
+	return g.frac[km] * gk * wsum
 }
 
 // NewWorkspace returns a scratch space for f.
@@ -328,18 +443,11 @@ func (w *Workspace) predict(h Hypothesis, tr Track) {
 	sig0 := f.tts*f.tts + f.trackSigma[h]*f.trackSigma[h]
 	// Delay of the emission at the cone point, per table bin.
 	binDS := p.extent / profile.NS
-	// Step edges along the track, shared by all sensors; stepFrac is the
-	// covered fraction of each step (the last may end at the wall) with
-	// the trapezoid's 1/2.
-	var edges, edges2 [nSteps + 1]float64
-	var stepFrac [nSteps]float64
-	for k := 0; k <= nsteps; k++ {
-		edges[k] = math.Min(float64(k)*p.ds, lim)
-		edges2[k] = edges[k] * edges[k]
-		if k > 0 {
-			stepFrac[k-1] = 0.5 * (edges[k] - edges[k-1]) / p.ds
-		}
-	}
+	// Step edges along the track, shared by all sensors.
+	grid := &w.grid
+	grid.set(p.ds, lim, nsteps, p.cum[:], p.dens[:])
+	far2 := f.farDistance * math.Max(math.Min(p.light90, lim), 0.6*lim)
+	far2 *= far2
 	accT, attT := r.acc, r.att
 	invAttStep := 1 / r.attStep
 	var sumD, sumDR, sumDE, sumG, sumGE float64
@@ -349,67 +457,7 @@ func (w *Workspace) predict(h Hypothesis, tr Track) {
 		z := dx*u.X + dy*u.Y + dz*u.Z
 		dn := dx*f.nx[i] + dy*f.ny[i] + dz*f.nz[i]
 		un := u.X*f.nx[i] + u.Y*f.ny[i] + u.Z*f.nz[i]
-		// Direct light, step by step along the track (edge inlined: this
-		// loop is the hot path of the fit).
-		var mu float64
-		var cA, wA float64
-		var jA int
-		var rA float64
-		for k := 0; k <= nsteps; k++ {
-			s := edges[k]
-			R2 := d2 - 2*s*z + edges2[k]
-			if R2 < 1 {
-				R2 = 1
-			}
-			invR := 1 / math.Sqrt(R2)
-			R := R2 * invR
-			c := (z - s) * invR
-			ci := (s*un - dn) * invR // incidence cosine on the inward-facing cathode
-			var wt float64
-			if ci > 0 {
-				// acceptance and attenuation tables, linear
-				xa := ci * accN
-				ka := int(xa)
-				var acc float64
-				if ka >= accN {
-					acc = accT[accN]
-				} else {
-					acc = accT[ka] + (xa-float64(ka))*(accT[ka+1]-accT[ka])
-				}
-				xr := R * invAttStep
-				kr := int(xr)
-				var att float64
-				if kr >= len(attT)-1 {
-					att = attT[len(attT)-1]
-				} else {
-					att = attT[kr] + (xr-float64(kr))*(attT[kr+1]-attT[kr])
-				}
-				wt = ci * invR * invR * acc * att
-			}
-			xc := (c + 1) * (uniNC / 2)
-			j := int(xc)
-			var rc float64
-			if j < 0 {
-				j, rc = 0, 0
-			} else if j >= uniNC {
-				j, rc = uniNC-1, 2.0/uniNC
-			} else {
-				rc = (xc - float64(j)) * (2.0 / uniNC)
-			}
-			if k > 0 && wA+wt > 0 {
-				km := k - 1
-				var g float64
-				if dc := c - cA; dc > 1e-6 || dc < -1e-6 {
-					cb := p.cum[km*(uniNC+1)+j] + rc*p.dens[km*uniNC+j]
-					ca := p.cum[km*(uniNC+1)+jA] + rA*p.dens[km*uniNC+jA]
-					g = (cb - ca) / dc
-				} else {
-					g = p.dens[km*uniNC+jA]
-				}
-				mu += stepFrac[km] * g * (wA + wt)
-			}
-			cA, wA, jA, rA = c, wt, j, rc
-		}
+		mu := grid.direct(d2, z, dn, un, d2 > far2, accT, attT, invAttStep)
 		mu *= norm
 		w.muD[i] = mu
 		// Direct-light time from the point that sees the sensor at the

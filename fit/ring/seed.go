@@ -2,7 +2,6 @@ package ring
 
 import (
 	"math"
-	"slices"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/optimize"
@@ -28,27 +27,45 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		return g
 	}
 	res := make([]float64, len(w.hits))
+	var counts []int
+	// bestT is the start time of v that puts the most residuals within
+	// one window of width 2 sigma: the mean of the residuals in the
+	// fullest pair of adjacent sigma-wide bins, less half a sigma for the
+	// early bias of first hits. Binning instead of sorting keeps the grid
+	// search linear in the hits.
 	bestT := func(v r3.Vector) float64 {
+		lo, hi := math.Inf(1), math.Inf(-1)
 		for k, i := range w.hits {
 			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
-			res[k] = w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
+			r := w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
+			res[k] = r
+			lo, hi = math.Min(lo, r), math.Max(hi, r)
 		}
-		slices.Sort(res)
-		// densest window of width 2 sigma
-		best, bi, j := 0, 0, 0
-		for k := range res {
-			for res[k]-res[j] > 2*sigma {
-				j++
-			}
-			if k-j+1 > best {
-				best, bi = k-j+1, j
+		nb := int((hi-lo)/sigma) + 2
+		if cap(counts) < nb {
+			counts = make([]int, nb)
+		}
+		counts = counts[:nb]
+		clear(counts)
+		for _, r := range res {
+			counts[int((r-lo)/sigma)]++
+		}
+		best, bb := -1, 0
+		for b := 0; b+1 < nb; b++ {
+			if c := counts[b] + counts[b+1]; c > best {
+				best, bb = c, b
 			}
 		}
+		a, e := lo+float64(bb)*sigma, lo+float64(bb+2)*sigma
 		var s float64
-		for k := bi; k < bi+best; k++ {
-			s += res[k]
+		var m int
+		for _, r := range res {
+			if r >= a && r < e {
+				s += r
+				m++
+			}
 		}
-		return s/float64(best) - 0.5*sigma
+		return s/float64(m) - 0.5*sigma
 	}
 	R, H := f.tankRadius, f.tankHalfZ
 	step := math.Max(math.Max(R, H)/6, 50)
@@ -108,7 +125,22 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 			best, bs = u, s
 		}
 	}
-	return w.refine(best, score)
+	best = w.refine(best, score)
+	// The charge centroid seen from v is a second candidate: the spiral's
+	// best can be a chance alignment when v is far from the true start
+	// (the point fit of a high-energy shower lands near its maximum).
+	var c r3.Vector
+	for _, i := range w.hits {
+		d := r3.Vector{X: w.f.px[i] - v.X, Y: w.f.py[i] - v.Y, Z: w.f.pz[i] - v.Z}.Normalize()
+		c = c.Add(d.Mul(math.Min(w.hitQ[i], 10)))
+	}
+	if c.Norm() > 0 {
+		alt := w.refine(c.Normalize(), score)
+		if score(alt, 0.03) > score(best, 0.03) {
+			best = alt
+		}
+	}
+	return best
 }
 
 // refineDirection re-aims the ring axis from a new vertex v, starting at u.
