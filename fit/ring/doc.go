@@ -119,6 +119,17 @@
 // and offset. Scale the errors by the measured pull widths when they are
 // used as resolutions.
 //
+// # Tracks that leave the tank
+//
+// The prediction stops the light at the wall, so a muon that leaves the
+// tank is fitted by the part of its track inside, which fixes the vertex
+// and direction but hardly the energy: any energy long enough to reach
+// the wall looks alike. Result.Outside is the fraction of the fitted
+// track's light beyond the wall; when it exceeds ExitingFraction,
+// Result.Exiting is true, the fitted energy is not a measurement and
+// Result.MinEkin is the lower bound, the energy whose light just reaches
+// the wall (TestExiting).
+//
 // Inputs the fit cannot use (no hits, a hit with a sensor index out of
 // range or a non-finite time or charge, no hit inside the readout window,
 // a seed outside the tank or an energy outside the tables) give errors

@@ -60,7 +60,25 @@ type Result struct {
 	// of this model can do better.
 	CramerRao   Errors
 	Evaluations int
+	// Outside is the fraction of the fitted track's light that the
+	// emission profile puts beyond the tank wall along the fitted
+	// direction: a muon that leaves the tank. Its light inside fixes the
+	// track but hardly the energy, so when Outside is more than
+	// ExitingFraction the energy and momentum are lower bounds, not
+	// measurements, and Exiting reports it; MinEkin is then the kinetic
+	// energy whose light would just reach the wall (the lower bound).
+	Outside float64
+	MinEkin float64
 }
+
+// ExitingFraction is the fraction of a track's light beyond the wall above
+// which Result.Exiting is true (common practice for calling a track
+// partially contained; the choice of 5% is ours).
+const ExitingFraction = 0.05
+
+// Exiting reports whether the fitted track leaves the tank with more than
+// ExitingFraction of its light: the fitted energy is then a lower bound.
+func (r *Result) Exiting() bool { return r.Outside > ExitingFraction }
 
 // Reconstruction is the two-hypothesis fit of an event.
 type Reconstruction struct {
@@ -367,7 +385,57 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 	res.NLL = w.nll(h, best)
 	res.Converged = true
 	res.Evaluations = w.evals
+	res.Outside = w.outsideFraction(h, best)
+	if res.Exiting() {
+		res.MinEkin = w.rangeEnergy(h, f.det.DistanceAlong(best.Vertex, best.Dir))
+	}
 	return res
+}
+
+// rangeEnergy returns the kinetic energy of hypothesis h whose light
+// ends (90% of it emitted, light90) at distance l, by bisection in log
+// energy over the table range; the ends of the range when l lies beyond.
+func (w *Workspace) rangeEnergy(h Hypothesis, l float64) float64 {
+	lo, hi := w.f.EnergyRange(h)
+	if w.lightLength(h, lo) >= l {
+		return lo
+	}
+	if w.lightLength(h, hi) <= l {
+		return hi
+	}
+	a, b := math.Log(lo), math.Log(hi)
+	for range 40 {
+		m := 0.5 * (a + b)
+		if w.lightLength(h, math.Exp(m)) < l {
+			a = m
+		} else {
+			b = m
+		}
+	}
+	return math.Exp(0.5 * (a + b))
+}
+
+// outsideFraction is the fraction of the light of track tr that its
+// emission profile puts beyond the wall along its direction.
+func (w *Workspace) outsideFraction(h Hypothesis, tr Track) float64 {
+	p := &w.prof
+	w.f.species(h).interpolate(tr.Ekin, p)
+	lexit := w.f.det.DistanceAlong(tr.Vertex, tr.Dir)
+	var in, all float64
+	for k := 0; k < nSteps; k++ {
+		a, b := float64(k)*p.ds, float64(k+1)*p.ds
+		all += p.total[k]
+		switch {
+		case b <= lexit:
+			in += p.total[k]
+		case a < lexit:
+			in += p.total[k] * (lexit - a) / p.ds
+		}
+	}
+	if !(all > 0) {
+		return 0
+	}
+	return 1 - in/all
 }
 
 // addUncertainties fills the covariance, errors and Cramer-Rao bound of

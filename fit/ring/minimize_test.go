@@ -157,3 +157,43 @@ func TestCurvature(t *testing.T) {
 		}
 	}
 }
+
+// TestExiting fits muons of 800 MeV/c in the demo tank: one that stops
+// inside (CSDA range about 320 cm in water, GMS muon tables, from memory)
+// started about 950 cm before the wall, and one started 150 cm before it,
+// which leaves with about half its light. Only the second must be flagged, and its
+// lower bound must lie below the true energy and above the energy whose
+// light ends 150 cm on.
+func TestExiting(t *testing.T) {
+	d := demoTank(t)
+	w := d.fit.NewWorkspace()
+	ekin := phys.KineticFromMomentum(800, phys.MuonMass)
+	u := r3.Vector{X: 1}
+	for _, c := range []struct {
+		wall    float64 // distance to the barrel along u, cm
+		exiting bool
+	}{{1000, false}, {150, true}} {
+		// the sensor surface is at the tank radius less the offset
+		tk := d.cfg.Detector.Tank()
+		x := tk.Radius - tk.SensorOffset - c.wall
+		if c.wall > 900 {
+			x = -(tk.Radius - tk.SensorOffset) + 50 // from the far side
+		}
+		pos := r3.Vector{X: x}
+		ev, err := d.sim.Event(970, []phys.Particle{{PDG: phys.MuonMinus, Pos: pos, Dir: u, Ekin: ekin}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := w.FitFrom(ev.Hits, Window{}, Muon, Track{Vertex: pos, Dir: u, Ekin: ekin})
+		if err != nil || !res.Converged {
+			t.Fatalf("wall %g: fit %v %s", c.wall, err, res.Reason)
+		}
+		t.Logf("wall %g cm: outside %.2f, fitted %.0f MeV, lower bound %.0f MeV, true %.0f MeV", c.wall, res.Outside, res.Track.Ekin, res.MinEkin, ekin)
+		if res.Exiting() != c.exiting {
+			t.Errorf("wall %g cm: Exiting %v with %.2f of the light outside", c.wall, res.Exiting(), res.Outside)
+		}
+		if c.exiting && !(res.MinEkin > 0 && res.MinEkin < ekin) {
+			t.Errorf("wall %g cm: lower bound %.0f MeV, true %.0f MeV", c.wall, res.MinEkin, ekin)
+		}
+	}
+}
