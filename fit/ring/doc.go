@@ -144,10 +144,20 @@
 // which runs internal/gentables: single electrons and muons at 23 kinetic
 // energies each (electrons 20 MeV - 3 GeV, muons 65 MeV - 3 GeV) through
 // unbounded water with sim/transport and sim/cherenkov, counting the
-// photons of the 300-650 nm band (where photocathodes behind glass
-// respond; a sensor's efficiency outside it is ignored) in 32 bins of the
-// distance along the initial direction (scaled to each energy's light
-// extent) by 110 bins of the cosine to it. They depend only on the
+// photons of the 280-660 nm band (the range of the sensor presets'
+// quantum efficiency, over which the simulator emits; a sensor's
+// efficiency outside it is ignored) in 32 bins of the distance along the
+// track axis (scaled to each energy's light extent) by 110 bins of the
+// cosine to it. The axis is the initial direction for electrons and, for
+// muons, each event's own early track (start to the centroid of the
+// emission points of its first third). Multiple scattering tilts a muon's
+// track one way in each event; counted about the initial direction, the
+// mean over events turns that tilt into a symmetric widening of the cone
+// that no single event has, and a fit of one event with it is biased
+// forward along the track where rings are thin next to their distance to
+// the wall (the large tank: a forward shift of the vertex by +16 cm on
+// average at 500 MeV/c, vertex 68% 26 cm; with the early axis -2.6 cm and
+// 23.6 cm, the direction unchanged). They depend only on the
 // particle physics and the refractive index; absorption, scattering, the
 // sensors and the tank are parameters of the Fitter.
 // Between nodes the profiles are interpolated in log energy at the same

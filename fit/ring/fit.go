@@ -1,9 +1,11 @@
 package ring
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/mat"
@@ -144,6 +146,11 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	if err != nil {
 		return rec, err
 	}
+	// The ring is the brightest burst of light: a muon's decay electron
+	// microseconds later, or a second interaction, in the same readout
+	// must not take the point seed.
+	tc := w.brightestBurst(w.f.crossingTime())
+	dropped += w.restrict(tc-promptBefore, tc+w.f.promptAfter())
 	v, t0 := w.pointSeed()
 	dropped += w.restrict(t0-promptBefore, t0+w.f.promptAfter())
 	used = len(w.hits)
@@ -217,6 +224,37 @@ func (w *Workspace) FitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed Track
 	res := w.fitLoaded(h, seed)
 	w.addUncertainties(&res)
 	return res, nil
+}
+
+// crossingTime is the time light takes along the tank's diagonal: the
+// spread of the direct-light arrival times of one event.
+func (f *Fitter) crossingTime() float64 {
+	return math.Hypot(2*f.tankRadius, 2*f.tankHalfZ) * f.resp.invGroup
+}
+
+// brightestBurst returns the start of the time window of length width
+// that holds the most hit charge.
+func (w *Workspace) brightestBurst(width float64) float64 {
+	type tq struct{ t, q float64 }
+	hs := make([]tq, 0, len(w.hits))
+	for _, i := range w.hits {
+		hs = append(hs, tq{w.hitT[i], w.hitQ[i]})
+	}
+	slices.SortFunc(hs, func(a, b tq) int { return cmp.Compare(a.t, b.t) })
+	best, bt := -1.0, hs[0].t
+	var sum float64
+	j := 0
+	for k := range hs {
+		sum += hs[k].q
+		for hs[k].t-hs[j].t > width {
+			sum -= hs[j].q
+			j++
+		}
+		if sum > best {
+			best, bt = sum, hs[j].t
+		}
+	}
+	return bt
 }
 
 // promptAfter is the longest a ring's light can take after the vertex

@@ -79,13 +79,13 @@ func TestProfileCone(t *testing.T) {
 		t.Errorf("muon cone peaks at cos %.4f, want within 0.741-0.749 (1/n of water) +- 0.005", c)
 	}
 	// The Frank-Tamm yield per cm of a muon at beta ~ 1 over the table
-	// band, 2 pi alpha (1/lambda1 - 1/lambda2)(1 - 1/n^2) ~ 370 photons
-	// per cm for 300-650 nm and n = 1.34; delta rays add light, so the
+	// band, 2 pi alpha (1/lambda1 - 1/lambda2)(1 - 1/n^2) ~ 410 photons
+	// per cm for 280-660 nm and n = 1.34; delta rays add light, so the
 	// first step must carry at least that much (from memory: delta rays
 	// add of order 10-20%).
 	perCm := p.total[0] / p.ds
 	n := 1.34
-	ft := 2 * math.Pi * phys.FineStructure * (1/300e-7 - 1/650e-7) * (1 - 1/(n*n))
+	ft := 2 * math.Pi * phys.FineStructure * (1/280e-7 - 1/660e-7) * (1 - 1/(n*n))
 	if perCm < 0.97*ft || perCm > 1.4*ft {
 		t.Errorf("muon light near the start %.0f photons/cm, Frank-Tamm %.0f", perCm, ft)
 	}

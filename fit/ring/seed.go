@@ -9,8 +9,14 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
+// goodChargeCap caps the charge weight of a hit in the point-fit goodness:
+// weighting by charge lets a bright ring outweigh a dimmer burst of light
+// in the same readout (a muon's decay electron soon after it), and the
+// cap keeps a few bright sensors from deciding alone.
+const goodChargeCap = 3
+
 // pointSeed is the vertex and time of a point source that best explains
-// the hit times: the goodness sum_i exp(-(t_i - t0 - R_i/v_g)^2 / 2 sigma^2)
+// the hit times: the goodness sum_i min(q_i, 3) exp(-(t_i - t0 - R_i/v_g)^2 / 2 sigma^2)
 // is maximized first on a grid over the tank and then by Nelder-Mead.
 // The point found lies along the track, near where most of the light comes
 // from; the track fits move it back to the start.
@@ -22,17 +28,17 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		for _, i := range w.hits {
 			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
 			r := (w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup - t0) / sigma
-			g += math.Exp(-0.5 * r * r)
+			g += math.Min(w.hitQ[i], goodChargeCap) * math.Exp(-0.5*r*r)
 		}
 		return g
 	}
 	res := make([]float64, len(w.hits))
-	var counts []int
-	// bestT is the start time of v that puts the most residuals within
-	// one window of width 2 sigma: the mean of the residuals in the
-	// fullest pair of adjacent sigma-wide bins, less half a sigma for the
-	// early bias of first hits. Binning instead of sorting keeps the grid
-	// search linear in the hits.
+	var counts []float64
+	// bestT is the start time of v that puts the most weight (capped
+	// charge, as in good) within one window of width 2 sigma: the mean of
+	// the residuals in the fullest pair of adjacent sigma-wide bins, less
+	// half a sigma for the early bias of first hits. Binning instead of
+	// sorting keeps the grid search linear in the hits.
 	bestT := func(v r3.Vector) float64 {
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for k, i := range w.hits {
@@ -43,14 +49,14 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		}
 		nb := int((hi-lo)/sigma) + 2
 		if cap(counts) < nb {
-			counts = make([]int, nb)
+			counts = make([]float64, nb)
 		}
 		counts = counts[:nb]
 		clear(counts)
-		for _, r := range res {
-			counts[int((r-lo)/sigma)]++
+		for k, r := range res {
+			counts[int((r-lo)/sigma)] += math.Min(w.hitQ[w.hits[k]], goodChargeCap)
 		}
-		best, bb := -1, 0
+		best, bb := -1.0, 0
 		for b := 0; b+1 < nb; b++ {
 			if c := counts[b] + counts[b+1]; c > best {
 				best, bb = c, b
