@@ -121,11 +121,12 @@ func FuzzIntersect(f *testing.F) {
 }
 
 // TestGridCellsBounded checks the lookup grid of a long thin sensor
-// surface: a barrel of radius 1e15 cm and height 2 cm would need billions of
-// one-diameter cells; the grid must stay within its 8n+64 cells (found by
-// FuzzReadSensorCSV as a runaway allocation).
+// surface: a barrel of radius MaxTankSize and height 2 cm would need
+// millions of one-diameter cells; the grid must stay within its 8n+64
+// cells (found by FuzzReadSensorCSV as a runaway allocation, then with
+// radii up to 1e300, which Validate now refuses).
 func TestGridCellsBounded(t *testing.T) {
-	for _, tank := range []Tank{{Radius: 1e15, Height: 2}, {Radius: 1, Height: 1e15}, {Radius: 1e300, Height: 1e300}} {
+	for _, tank := range []Tank{{Radius: MaxTankSize, Height: 2}, {Radius: 1, Height: MaxTankSize}, {Radius: MaxTankSize, Height: MaxTankSize}} {
 		d, err := NewDetector(tank, 1, nil)
 		if err != nil {
 			t.Fatal(err)

@@ -60,14 +60,27 @@ func DemoTank() Tank { return Tank{Radius: 560, Height: 1160, SensorOffset: 60} 
 // left for an outer water layer. It describes no real detector.
 func LargeTank() Tank { return Tank{Radius: 1940, Height: 3960, SensorOffset: 240} }
 
+// MaxTankSize (cm) bounds a tank's radius and height: ten kilometres, far
+// beyond any water-Cherenkov tank, below which areas, volumes and the
+// sensor lookup grids keep their precision in float64 (a radius near
+// 1e308 would make the area infinite).
+const MaxTankSize = 1e6
+
 // Validate reports whether t describes a cylinder with a non-empty sensor
-// surface. The error names the offending field and its value.
+// surface and dimensions up to MaxTankSize. The error names the offending
+// field and its value.
 func (t Tank) Validate() error {
 	if !positiveFinite(t.Radius) {
 		return fmt.Errorf("geom: Tank.Radius = %v must be positive and finite", t.Radius)
 	}
 	if !positiveFinite(t.Height) {
 		return fmt.Errorf("geom: Tank.Height = %v must be positive and finite", t.Height)
+	}
+	if t.Radius > MaxTankSize {
+		return fmt.Errorf("geom: Tank.Radius = %v exceeds MaxTankSize %v cm", t.Radius, float64(MaxTankSize))
+	}
+	if t.Height > MaxTankSize {
+		return fmt.Errorf("geom: Tank.Height = %v exceeds MaxTankSize %v cm", t.Height, float64(MaxTankSize))
 	}
 	if !(t.SensorOffset >= 0) || math.IsInf(t.SensorOffset, 0) {
 		return fmt.Errorf("geom: Tank.SensorOffset = %v must be non-negative and finite", t.SensorOffset)

@@ -30,6 +30,9 @@ func TestTankValidate(t *testing.T) {
 		{Tank{Radius: 100, Height: 200, SensorOffset: inf}, "Tank.SensorOffset = +Inf "},
 		{Tank{Radius: 100, Height: 200, SensorOffset: 100}, "Tank.SensorOffset = 100 leaves no volume"},
 		{Tank{Radius: 300, Height: 200, SensorOffset: 100}, "Tank.SensorOffset = 100 leaves no volume"},
+		{Tank{Radius: 1e308, Height: 200}, "Tank.Radius = 1e+308 exceeds MaxTankSize"},
+		{Tank{Radius: 100, Height: 2e6}, "Tank.Height = 2e+06 exceeds MaxTankSize"},
+		{Tank{Radius: MaxTankSize, Height: MaxTankSize}, ""},
 	} {
 		err := tc.tank.Validate()
 		checkErr(t, tc.tank.String(), err, tc.want)
