@@ -99,16 +99,14 @@ func TestDiagVertexBias(t *testing.T) {
 		}
 	}
 	s, f := setup(t, cfg, true)
-	c := s.Config()
 	d := newBiasDiag(f, pdg)
 	doFit := os.Getenv("CONELIGHT_RING_DIAG_FIT") == "1"
-	tank := c.Detector.Tank()
 	const minWall = 200
 	pt := point{fmt.Sprintf("pdg%d-%g", pdg, p), pdg, p}
 	for k := 0; k < n; k++ {
 		rng := rand.New(rand.NewPCG(4100, uint64(k)))
 		var tt trueTrack
-		hits := simulateContained(t, s, rng, pt, tank.Radius-tank.SensorOffset-minWall, tank.Height/2-tank.SensorOffset-minWall, 4100, k, nil, &tt)
+		hits := simulateContained(t, s, rng, pt, minWall, 4100, k, nil, &tt)
 		if hits == nil {
 			t.Logf("event %d: no contained triggered event", k)
 			continue

@@ -176,10 +176,11 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	if !finite(rec.LLR) {
 		rec.LLR = 0
 	}
-	// When the ratio is not decisive the losing hypothesis may sit in a
-	// local minimum of its own seed: refit it from the winner's track and
-	// keep the better of its two fits.
-	if math.Abs(rec.LLR) < crossSeedLLR || !rec.Electron.Converged || !rec.Muon.Converged {
+	// When the ratio is not decisive, or the two fits disagree on the
+	// track by far more than their resolutions, the losing hypothesis may
+	// sit in a local minimum of its own seed: refit it from the winner's
+	// track and keep the better of its two fits.
+	if math.Abs(rec.LLR) < crossSeedLLR || !rec.Electron.Converged || !rec.Muon.Converged || disagree(&rec.Electron.Track, &rec.Muon.Track) {
 		from, to := &rec.Electron, &rec.Muon
 		if rec.LLR < 0 || !rec.Electron.Converged {
 			from, to = &rec.Muon, &rec.Electron
@@ -200,6 +201,21 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	w.addUncertainties(PIDCut{}.Best(&rec))
 	return rec, nil
 }
+
+// disagree reports whether two fitted tracks of one event differ in
+// direction by more than crossSeedAngle: one of the fits is lost (a faint
+// ring in a large tank, a poor seed). Their vertices are no guide: the
+// electron hypothesis starts the light of a shower a metre or two after
+// where the muon hypothesis starts a track.
+func disagree(a, b *Track) bool {
+	return a.Dir.Dot(b.Dir) < math.Cos(crossSeedAngle)
+}
+
+// crossSeedAngle (rad) is several times the direction resolution of
+// either fit at a few hundred MeV (the package's regression and
+// large-tank studies: 1-4 degrees), while the two fits of one event agree
+// to about a degree.
+const crossSeedAngle = 0.1
 
 // crossSeedLLR is the log-likelihood ratio below which the losing
 // hypothesis is refitted from the winner's track (several times the
@@ -282,7 +298,7 @@ func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector
 	// charge hardly depends on the start, so after the first candidate
 	// one update from the last energy suffices.
 	iters := 3
-	for _, back := range []float64{0, 0.25, 0.5, 0.75, 1.0} {
+	for _, back := range []float64{0, 0.33, 0.67, 1.0} {
 		tr := Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
 		for it := 0; it < iters; it++ {
 			sh := back * w.lightLength(h, tr.Ekin)

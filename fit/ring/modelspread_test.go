@@ -31,9 +31,6 @@ func TestModelSpread(t *testing.T) {
 	d := demoTank(t)
 	w := d.fit.NewWorkspace()
 	ct := d.fit.charge
-	tank := d.cfg.Detector.Tank()
-	rFid := tank.Radius - tank.SensorOffset - demoWall
-	hFid := tank.Height/2 - tank.SensorOffset - demoWall
 	mu := make([]float64, d.fit.n)
 	for _, pt := range []point{{"e-600", phys.Electron, 600}, {"mu-600", phys.MuonMinus, 600}} {
 		h := Electron
@@ -44,7 +41,7 @@ func TestModelSpread(t *testing.T) {
 		for k := 0; k < 24; k++ {
 			rng := rand.New(rand.NewPCG(77, uint64(k)))
 			var tt trueTrack
-			hits := simulateContained(t, d.sim, rng, pt, rFid, hFid, 77, k, nil, &tt)
+			hits := simulateContained(t, d.sim, rng, pt, demoWall, 77, k, nil, &tt)
 			if hits == nil {
 				continue
 			}

@@ -29,11 +29,11 @@ const (
 	scoreStep = 0.02
 	// decrementTol stops the fit when the expected gain of a full step,
 	// g^T B^-1 g / 2, is below it (log-likelihood units).
-	decrementTol = 0.02
+	decrementTol = 0.05
 	// floorGain stops it after two accepted steps in a row that each
 	// gained less than this: the noise floor of the linearly
 	// interpolated tables, where the secant updates no longer learn.
-	floorGain = 0.03
+	floorGain = 0.05
 	// maxAngleOffset (scaled units, 0.1 rad) re-anchors the frame.
 	maxAngleOffset = 5
 	// maxDamping gives up on a point where no damped step descends.
@@ -42,7 +42,7 @@ const (
 	// still descends after that many started far from its minimum (a
 	// wrong ring from the seed, or the wrong hypothesis), and the
 	// caller refits it from a better start.
-	maxIterations = 60
+	maxIterations = 100
 	// maxStep caps the length of a step (scaled units: 3 m of vertex or
 	// 0.6 rad of direction alone).
 	maxStep = 30

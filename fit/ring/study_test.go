@@ -34,6 +34,15 @@ type sample struct {
 	pulls            map[string][]float64
 	reasons          map[string]int // why fits of the true hypothesis failed
 	cpu              time.Duration  // summed fit time
+	// pid holds, per event with both fits converged, the likelihood
+	// ratio and the mean fitted momentum (GeV/c) PIDCut uses.
+	pid []pidPoint
+}
+
+// pidPoint is one event's identity input: PIDCut's LLR and momentum.
+type pidPoint struct {
+	k      int // event index in the sample
+	llr, p float64
 }
 
 // trueTrack is what the fit is compared with.
@@ -52,8 +61,6 @@ type trueTrack struct {
 // quasi-elastic generator instead (pdg gives the neutrino flavour's lepton).
 func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall float64, seed uint64, qe *gen.QE) sample {
 	t.Helper()
-	cfg := s.Config()
-	tank := cfg.Detector.Tank()
 	var hyp Hypothesis
 	if pt.pdg == phys.MuonMinus {
 		hyp = Muon
@@ -71,7 +78,7 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 			for k := range jobs {
 				rng := rand.New(rand.NewPCG(seed, uint64(k)))
 				var tt trueTrack
-				evHits := simulateContained(t, s, rng, pt, tank.Radius-tank.SensorOffset-minWall, tank.Height/2-tank.SensorOffset-minWall, seed, k, qe, &tt)
+				evHits := simulateContained(t, s, rng, pt, minWall, seed, k, qe, &tt)
 				if evHits == nil {
 					mu.Lock()
 					out.failed++
@@ -90,6 +97,9 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 				}
 				if (PIDCut{}).PDG(&rec) != pt.pdg {
 					out.misID++
+				}
+				if rec.Electron.Converged && rec.Muon.Converged {
+					out.pid = append(out.pid, pidPoint{k, rec.LLR, 0.5 * (rec.Electron.Momentum + rec.Muon.Momentum) / 1000})
 				}
 				r := rec.Electron
 				if hyp == Muon {
@@ -140,12 +150,14 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 	return out
 }
 
-// simulateContained draws vertex and direction (or a QE interaction) from
+// simulateContained draws vertex (uniform minWall or more inside the
+// sensor surface) and direction (isotropic), or a QE interaction, from
 // rng until the lepton stops inside the tank (electron showers always
 // count as contained) and returns the event's hits.
-func simulateContained(t testing.TB, s *sim.Simulator, rng *rand.Rand, pt point, rFid, hFid float64, seed uint64, k int, qe *gen.QE, tt *trueTrack) []pmt.Hit {
+func simulateContained(t testing.TB, s *sim.Simulator, rng *rand.Rand, pt point, minWall float64, seed uint64, k int, qe *gen.QE, tt *trueTrack) []pmt.Hit {
 	t.Helper()
 	det := s.Config().Detector
+	vertices := gen.InFiducial(det.Tank(), minWall)
 	mass := phys.ElectronMass
 	if pt.pdg == phys.MuonMinus {
 		mass = phys.MuonMass
@@ -161,14 +173,8 @@ func simulateContained(t testing.TB, s *sim.Simulator, rng *rand.Rand, pt point,
 			prim = ps[0]
 			tt.enu, tt.beam = info.NeutrinoEnergy, info.NeutrinoDir
 		} else {
-			rr := rFid * math.Sqrt(rng.Float64())
-			ph := 2 * math.Pi * rng.Float64()
-			z := hFid * (2*rng.Float64() - 1)
-			cz := 2*rng.Float64() - 1
-			pp := 2 * math.Pi * rng.Float64()
-			sz := math.Sqrt(1 - cz*cz)
-			prim = phys.Particle{PDG: pt.pdg, Pos: r3.Vector{X: rr * math.Cos(ph), Y: rr * math.Sin(ph), Z: z},
-				Dir: r3.Vector{X: sz * math.Cos(pp), Y: sz * math.Sin(pp), Z: cz}, Ekin: phys.KineticFromMomentum(pt.p, mass)}
+			prim = phys.Particle{PDG: pt.pdg, Pos: vertices.Sample(rng), Dir: gen.Isotropic().Sample(rng),
+				Ekin: phys.KineticFromMomentum(pt.p, mass)}
 		}
 		num := seed<<20 + uint64(k)<<6 + uint64(try)
 		ev, err := s.Event(num, []phys.Particle{prim})
