@@ -43,6 +43,9 @@ func (w *Workspace) curvatureAt(h Hypothesis, fr *frame, step float64) *curvatur
 	withTime := func(f0 float64, sgn float64) float64 {
 		return f0 - w.timeShiftNLL(0) + w.timeShiftNLL(sgn*shift)
 	}
+	// Every sensor's time derivative enters the Cramer-Rao bound.
+	w.allTimes = true
+	defer func() { w.allTimes = false }()
 	f0 := eval()
 	fp, fm := withTime(f0, 1), withTime(f0, -1)
 	var plus, minus [NumParams]float64

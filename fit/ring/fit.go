@@ -599,7 +599,9 @@ func (w *Workspace) cramerRao(h Hypothesis, tr Track, c *curvature) Errors {
 	fr := newFrame(tr, f.energyLo[h], f.energyHi[h])
 	n := f.n
 	dmu, dt := c.dmu, c.dt
+	w.allTimes = true
 	w.predict(h, tr)
+	w.allTimes = false
 	info := mat.NewSymDense(NumParams, nil)
 	for i := 0; i < n; i++ {
 		if f.dead[i] {

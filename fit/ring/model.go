@@ -238,6 +238,9 @@ type Workspace struct {
 	evals      int
 	score      scoreScratch
 	grid       stepGrid
+	// allTimes makes predict fill the times of every sensor, not only
+	// of the hit ones (Predict and the Cramer-Rao bound).
+	allTimes bool
 }
 
 // farDistance is the distance from the vertex, in units of the light's
@@ -377,7 +380,9 @@ func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
 		return err
 	}
 	tr.Dir = tr.Dir.Normalize()
+	w.allTimes = true
 	w.predict(h, tr)
+	w.allTimes = false
 	for i := range mu {
 		mu[i] = w.muD[i] + w.muI[i]
 	}
@@ -466,10 +471,13 @@ func (w *Workspace) predict(h Hypothesis, tr Track) {
 		s := z - b/tan
 		s = min(max(s, 0), tEnd)
 		R := math.Sqrt(math.Max(d2-2*s*z+s*s, 0))
-		k := min(int(s/binDS), profile.NS-1)
-		w.tDir[i] = tr.Time + s/phys.SpeedOfLight + p.delay[k] + R*r.invGroup
-		sd := R * r.invGroupSD
-		w.sgT[i] = math.Sqrt(sig0 + sd*sd)
+		if w.allTimes || w.hitQ[i] >= 0 {
+			// The likelihood needs the times of hit sensors only.
+			k := min(int(s/binDS), profile.NS-1)
+			w.tDir[i] = tr.Time + s/phys.SpeedOfLight + p.delay[k] + R*r.invGroup
+			sd := R * r.invGroupSD
+			w.sgT[i] = math.Sqrt(sig0 + sd*sd)
+		}
 		sumD += mu
 		sumDR += mu * R
 		if mu > 0 {

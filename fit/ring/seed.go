@@ -9,6 +9,9 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
+// gridHits bounds the hits the point seed's grid search evaluates.
+const gridHits = 300
+
 // goodChargeCap caps the charge weight of a hit in the point-fit goodness:
 // weighting by charge lets a bright ring outweigh a dimmer burst of light
 // in the same readout (a muon's decay electron soon after it), and the
@@ -23,9 +26,9 @@ const goodChargeCap = 3
 func (w *Workspace) pointSeed() (r3.Vector, float64) {
 	f := w.f
 	sigma := math.Hypot(f.tts, 1.5)
-	good := func(v r3.Vector, t0 float64) float64 {
+	good := func(hits []int, v r3.Vector, t0 float64) float64 {
 		var g float64
-		for _, i := range w.hits {
+		for _, i := range hits {
 			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
 			r := (w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup - t0) / sigma
 			g += math.Min(w.hitQ[i], goodChargeCap) * math.Exp(-0.5*r*r)
@@ -39,9 +42,10 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 	// the residuals in the fullest pair of adjacent sigma-wide bins, less
 	// half a sigma for the early bias of first hits. Binning instead of
 	// sorting keeps the grid search linear in the hits.
-	bestT := func(v r3.Vector) float64 {
+	bestT := func(hits []int, v r3.Vector) float64 {
+		res := res[:len(hits)]
 		lo, hi := math.Inf(1), math.Inf(-1)
-		for k, i := range w.hits {
+		for k, i := range hits {
 			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
 			r := w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
 			res[k] = r
@@ -54,7 +58,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		counts = counts[:nb]
 		clear(counts)
 		for k, r := range res {
-			counts[int((r-lo)/sigma)] += math.Min(w.hitQ[w.hits[k]], goodChargeCap)
+			counts[int((r-lo)/sigma)] += math.Min(w.hitQ[hits[k]], goodChargeCap)
 		}
 		best, bb := -1.0, 0
 		for b := 0; b+1 < nb; b++ {
@@ -73,6 +77,15 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		}
 		return s/float64(m) - 0.5*sigma
 	}
+	// The grid needs only a rough vertex: it uses at most gridHits of the
+	// hits, evenly spread over the list; Nelder-Mead then uses them all.
+	grid := w.hits
+	if len(grid) > gridHits {
+		grid = make([]int, 0, gridHits)
+		for k := 0; k < gridHits; k++ {
+			grid = append(grid, w.hits[k*len(w.hits)/gridHits])
+		}
+	}
 	R, H := f.tankRadius, f.tankHalfZ
 	step := math.Max(math.Max(R, H)/6, 50)
 	var bv r3.Vector
@@ -84,20 +97,22 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 			}
 			for z := -H + step/2; z < H; z += step {
 				v := r3.Vector{X: x, Y: y, Z: z}
-				t0 := bestT(v)
-				if g := good(v, t0); g > bg {
+				t0 := bestT(grid, v)
+				if g := good(grid, v, t0); g > bg {
 					bv, bt, bg = v, t0, g
 				}
 			}
 		}
 	}
+	bt = bestT(w.hits, bv)
+	bg = good(w.hits, bv, bt)
 	p := optimize.Problem{Func: func(x []float64) float64 {
 		v := r3.Vector{X: x[0] * 10, Y: x[1] * 10, Z: x[2] * 10}
 		pen := 0.0
 		if d := f.det.DistanceToWall(v); d < 0 {
 			pen = d * d
 		}
-		return -good(v, x[3]) + pen
+		return -good(w.hits, v, x[3]) + pen
 	}}
 	r, _ := optimize.Minimize(p, []float64{bv.X / 10, bv.Y / 10, bv.Z / 10, bt},
 		&optimize.Settings{FuncEvaluations: 600, Converger: &optimize.FunctionConverge{Absolute: 1e-3, Iterations: 30}},
@@ -117,7 +132,17 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 // angle, searched over a spiral of directions covering the sphere and
 // refined around the best one.
 func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
-	score := w.ringScore(v)
+	score := w.ringScore(v, w.hits)
+	// The spiral needs only a rough axis: it scores at most gridHits of
+	// the hits, evenly spread; the refinement scores them all.
+	coarse := score
+	if len(w.hits) > gridHits {
+		sub := make([]int, 0, gridHits)
+		for k := 0; k < gridHits; k++ {
+			sub = append(sub, w.hits[k*len(w.hits)/gridHits])
+		}
+		coarse = w.ringScore(v, sub)
+	}
 	const n = 2000
 	var best r3.Vector
 	bs := math.Inf(-1)
@@ -127,7 +152,7 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 		r := math.Sqrt(1 - z*z)
 		phi := golden * float64(k)
 		u := r3.Vector{X: r * math.Cos(phi), Y: r * math.Sin(phi), Z: z}
-		if s := score(u, 0.06); s > bs {
+		if s := coarse(u, 0.06); s > bs {
 			best, bs = u, s
 		}
 	}
@@ -151,7 +176,7 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 
 // refineDirection re-aims the ring axis from a new vertex v, starting at u.
 func (w *Workspace) refineDirection(v, u r3.Vector) r3.Vector {
-	score := w.ringScore(v)
+	score := w.ringScore(v, w.hits)
 	return w.refine(u, score)
 }
 
@@ -173,15 +198,15 @@ func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float6
 // ringScore returns the score of a ring axis seen from v: the hit charge
 // (capped at 10 pe) within a Gaussian band of the given width in cosine
 // about the Cherenkov angle.
-func (w *Workspace) ringScore(v r3.Vector) func(r3.Vector, float64) float64 {
+func (w *Workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) float64 {
 	f := w.f
 	cosC := 1 / f.resp.index
 	type hv struct {
 		u r3.Vector
 		q float64
 	}
-	hs := make([]hv, 0, len(w.hits))
-	for _, i := range w.hits {
+	hs := make([]hv, 0, len(hits))
+	for _, i := range hits {
 		d := r3.Vector{X: f.px[i] - v.X, Y: f.py[i] - v.Y, Z: f.pz[i] - v.Z}.Normalize()
 		hs = append(hs, hv{d, math.Min(w.hitQ[i], 10)})
 	}
