@@ -34,15 +34,19 @@ type sample struct {
 	pulls            map[string][]float64
 	reasons          map[string]int // why fits of the true hypothesis failed
 	cpu              time.Duration  // summed fit time
-	// pid holds, per event with both fits converged, the likelihood
-	// ratio and the mean fitted momentum (GeV/c) PIDCut uses.
+	// pid holds the reconstructions with both fits converged, by event
+	// index, for the identity cut.
 	pid []pidPoint
+	// crb holds the Cramer-Rao bounds of the true hypothesis's fits:
+	// vertex (cm, the three coordinates in quadrature), direction
+	// (degrees) and relative momentum.
+	crbVertex, crbAngle, crbMomentum []float64
 }
 
-// pidPoint is one event's identity input: PIDCut's LLR and momentum.
+// pidPoint is one event's reconstruction and its index in the sample.
 type pidPoint struct {
-	k      int // event index in the sample
-	llr, p float64
+	k   int
+	rec Reconstruction
 }
 
 // trueTrack is what the fit is compared with.
@@ -99,7 +103,7 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 					out.misID++
 				}
 				if rec.Electron.Converged && rec.Muon.Converged {
-					out.pid = append(out.pid, pidPoint{k, rec.LLR, 0.5 * (rec.Electron.Momentum + rec.Muon.Momentum) / 1000})
+					out.pid = append(out.pid, pidPoint{k, rec})
 				}
 				r := rec.Electron
 				if hyp == Muon {
@@ -126,6 +130,11 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 					if e, err := NeutrinoEnergy(&r, tt.beam); err == nil {
 						out.enu = append(out.enu, math.Abs(e/tt.enu-1))
 					}
+				}
+				if r.ErrorsValid && r.CramerRao.Ekin > 0 {
+					out.crbVertex = append(out.crbVertex, r.CramerRao.Vertex.Norm())
+					out.crbAngle = append(out.crbAngle, r.CramerRao.Direction*180/math.Pi)
+					out.crbMomentum = append(out.crbMomentum, r.CramerRao.Momentum/r.Momentum)
 				}
 				if r.ErrorsValid {
 					out.errorsValid++

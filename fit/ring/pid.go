@@ -1,0 +1,69 @@
+package ring
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/stat"
+)
+
+// CalibratePID returns the PIDCut line that separates samples of known
+// electrons and muons, fitted by both hypotheses: in momentum bins of
+// width binWidth (MeV/c; the PIDCut momentum is the mean of the two fitted
+// momenta), the midpoint between the electrons' 1% quantile of LLR and
+// the muons' 99% quantile, and the least-squares line through the
+// midpoints. Events where either fit did not converge are left out. At
+// least two bins must hold both species.
+//
+// The 1% and 99% quantiles make the line robust against a stray event
+// while it still keeps the tails of both samples on their side; calibrate
+// on one half of a sample and count the mis-identification on the other.
+func CalibratePID(electrons, muons []Reconstruction, binWidth float64) (PIDCut, error) {
+	if !(binWidth > 0) || math.IsInf(binWidth, 0) {
+		return PIDCut{}, fmt.Errorf("ring: CalibratePID binWidth = %g must be positive and finite (MeV/c)", binWidth)
+	}
+	type bin struct{ e, mu []float64 }
+	bins := map[int]*bin{}
+	add := func(r *Reconstruction, electron bool) {
+		if !r.Electron.Converged || !r.Muon.Converged || !finite(r.LLR) {
+			return
+		}
+		p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum)
+		k := int(math.Floor(p / binWidth))
+		b := bins[k]
+		if b == nil {
+			b = &bin{}
+			bins[k] = b
+		}
+		if electron {
+			b.e = append(b.e, r.LLR)
+		} else {
+			b.mu = append(b.mu, r.LLR)
+		}
+	}
+	for i := range electrons {
+		add(&electrons[i], true)
+	}
+	for i := range muons {
+		add(&muons[i], false)
+	}
+	var xs, ys []float64
+	for k, b := range bins {
+		if len(b.e) == 0 || len(b.mu) == 0 {
+			continue
+		}
+		sort.Float64s(b.e)
+		sort.Float64s(b.mu)
+		lo := stat.Quantile(0.01, stat.Empirical, b.e, nil)
+		hi := stat.Quantile(0.99, stat.Empirical, b.mu, nil)
+		xs = append(xs, (float64(k)+0.5)*binWidth/1000)
+		ys = append(ys, 0.5*(lo+hi))
+	}
+	if len(xs) < 2 {
+		return PIDCut{}, errors.New("ring: CalibratePID needs at least two momentum bins holding both electrons and muons")
+	}
+	offset, slope := stat.LinearRegression(xs, ys, nil, false)
+	return PIDCut{Offset: offset, Slope: slope}, nil
+}

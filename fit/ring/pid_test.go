@@ -1,0 +1,64 @@
+package ring
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// TestCalibratePID feeds CalibratePID electrons with LLR = 300 + 200 p
+// and muons with LLR = -100 - 300 p (p in GeV/c), each spread by a
+// normal of 20, over 0.2-1.2 GeV/c: the line must lie within the gap,
+// near its middle LLR = 100 - 50 p (the quantiles of 500 events per bin
+// sit about 2.3 spreads inside, symmetrically); and bad input must give
+// errors.
+func TestCalibratePID(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	var es, mus []Reconstruction
+	for i := 0; i < 5000; i++ {
+		p := 0.2 + rng.Float64()
+		e := Reconstruction{LLR: 300 + 200*p + 20*rng.NormFloat64()}
+		m := Reconstruction{LLR: -100 - 300*p + 20*rng.NormFloat64()}
+		for _, r := range []*Reconstruction{&e, &m} {
+			r.Electron = Result{Converged: true, Momentum: 1000 * p}
+			r.Muon = Result{Converged: true, Momentum: 1000 * p}
+		}
+		es, mus = append(es, e), append(mus, m)
+	}
+	cut, err := CalibratePID(es, mus, 100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The bin centres carry the line; the 100 MeV/c bins shift a
+	// point's momentum by up to 50 MeV/c, which the slopes (200 and -300
+	// per GeV/c) turn into at most 15 in LLR at a bin edge and about
+	// zero on average.
+	if math.Abs(cut.Offset-100) > 10 || math.Abs(cut.Slope+50) > 15 {
+		t.Errorf("cut %+v, want about Offset 100, Slope -50", cut)
+	}
+	bad := 0
+	for _, r := range es {
+		if cut.PDG(&r) != phys.Electron {
+			bad++
+		}
+	}
+	for _, r := range mus {
+		if cut.PDG(&r) != phys.MuonMinus {
+			bad++
+		}
+	}
+	if bad != 0 {
+		t.Errorf("%d of 10000 separable events on the wrong side", bad)
+	}
+	if _, err := CalibratePID(es, nil, 100); err == nil {
+		t.Error("no muons: want an error")
+	}
+	if _, err := CalibratePID(es, mus, 0); err == nil {
+		t.Error("zero bin width: want an error")
+	}
+	if _, err := CalibratePID(es, mus, math.NaN()); err == nil {
+		t.Error("NaN bin width: want an error")
+	}
+}
