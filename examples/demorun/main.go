@@ -8,7 +8,7 @@
 // positrons and photons up to 100 MeV with the low-energy fitter (package
 // fit), the other samples with the single-ring fitter (fit/ring), which fits
 // both the electron and the muon hypothesis and so gives the identity; the
-// ring fit takes about a second per event, so only the first -ringfit events
+// ring fit takes about half a second per event, so only the first -ringfit events
 // of each sample are ring-fitted. Samples neither fitter covers (muons
 // below the ring fitter's tables) are listed without a fit. The figures
 // (event display, hit-time residuals, charge against angle, resolution

@@ -48,6 +48,10 @@ type sample struct {
 	vertexPull, energyPull []float64
 	// Identity from the ring fit: events identified, and correctly.
 	identified, correct int
+	// exiting counts the converged ring fits of tracks that leave the
+	// tank (ring.Result.Exiting): their energies are lower bounds, so
+	// they are left out of the resolutions.
+	exiting int
 	// The first converged event and its fit, for the pictures.
 	example      *event.Event
 	exampleTrack track
@@ -203,6 +207,10 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 		if !r.Converged {
 			continue
 		}
+		if r.Exiting() {
+			sm.exiting++
+			continue
+		}
 		tr := truthOf(sm.events[i])
 		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Track.Vertex, Dir: r.Track.Dir, Energy: r.Track.Ekin})
 		sm.truth = append(sm.truth, tr)
@@ -242,6 +250,12 @@ func printTable(w io.Writer, samples []*sample) {
 		}
 		fmt.Fprintf(w, "%-6s %8g %-10s %4d/%-4d  %-13s %-13s %-13s %-13s %s\n",
 			sm.name, sm.energy, sm.fitter, len(sm.fitted), sm.tried, cols[0], cols[1], cols[2], cols[3], id)
+	}
+	for _, sm := range samples {
+		if sm.exiting > 0 {
+			fmt.Fprintf(w, "%s %g MeV: %d of %d ring fits leave the tank; their energies are lower bounds, left out of the resolutions\n",
+				sm.name, sm.energy, sm.exiting, sm.tried)
+		}
 	}
 }
 
