@@ -86,7 +86,7 @@
 // the time term), with a parabolic step-length correction. A step in the
 // time alone moves only the predicted times, so its differences reuse the
 // stored prediction. The fit stops when the expected gain of a full step
-// is below 0.02 or two steps in a row gained less than 0.03 (the noise
+// is below 0.05 or two steps in a row gained less than 0.05 (the noise
 // floor of the linearly interpolated tables), and gives up after 100
 // steps. Against gonum's quasi-Newton BFGS from the identity, which the
 // package used before, this needs about a third of the likelihood

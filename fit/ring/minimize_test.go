@@ -45,8 +45,8 @@ func fitEvents(t *testing.T) []struct {
 // independent one: a gonum BFGS run with central-difference gradients
 // started at the fitted track must not find a likelihood lower by more
 // than the minimizer's stopping tolerance allows (the expected gain
-// decrementTol of a last full step plus twice gainTol of the last two
-// accepted steps, 0.12, rounded up to 0.25 for the kinks of the tables),
+// decrementTol of a last full step plus floorGain for each of the last two
+// accepted steps, 0.15, rounded up to 0.25 for the kinks of the tables),
 // and must not move the track by more than a fraction of its resolution.
 func TestScoringReachesMinimum(t *testing.T) {
 	if testing.Short() {

@@ -17,9 +17,11 @@ import (
 // the model is right. The step solves (B + lambda diag B) d = -g; a
 // parabola through the value, the slope along d and the value at the step
 // corrects the step length when B misjudges the curvature (it does where
-// the model's spread is wrong, as in the time term). A quasi-Newton method
-// starting from the identity has to learn this matrix over many
-// iterations; with it the fit converges in a handful.
+// the model's spread is wrong, as in the time term), and damped BFGS
+// secant updates (secantUpdate) correct B itself along the steps taken,
+// B starting again from the scores when the frame is re-anchored. A
+// quasi-Newton method starting from the identity has to learn this matrix
+// over many iterations; with it the fit converges in a handful.
 
 // Settings of the scoring minimizer, in the scaled variables of frame.
 const (
