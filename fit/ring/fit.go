@@ -153,6 +153,11 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	dropped += w.restrict(tc-promptBefore, tc+w.f.promptAfter())
 	v, t0 := w.pointSeed()
 	dropped += w.restrict(t0-promptBefore, t0+w.f.promptAfter())
+	// Seen from the point seed, the ring's direct light arrives within
+	// the track's length in time and its scattered light a few delay
+	// constants later; a muon's decay electron a hundred nanoseconds on
+	// stands apart.
+	dropped += w.restrictLate(v, t0, w.f.lateResidual())
 	used = len(w.hits)
 	if used == 0 {
 		return rec, errors.New("ring: no hit left in the prompt window")
@@ -271,6 +276,57 @@ func (w *Workspace) brightestBurst(width float64) float64 {
 		}
 	}
 	return bt
+}
+
+// lateResidual (ns) is the latest time residual, about the point seed's
+// vertex and time, of a hit kept for the track fit: the light of the
+// longest track of the tables emitted after the seed point, plus three
+// delay constants of the indirect light (which leaves exp(-3), 5%, of
+// that light out).
+func (f *Fitter) lateResidual() float64 {
+	return f.energyHi[Muon]/muonLossPerCm/phys.SpeedOfLight + 3*f.lateTau
+}
+
+// muonLossPerCm (MeV/cm) converts the top muon energy of the tables into
+// a track length: minimum-ionizing loss in water, about 2 MeV/cm (PDG
+// Review, Passage of particles through matter; rounded).
+const muonLossPerCm = 2.0
+
+// restrictLate drops the hits whose time residual about a point source at
+// v, t0 (t - t0 - |x - v|/v_g) exceeds late, and returns their number. A
+// late burst is dimmer than the ring (brightestBurst chose the ring), so
+// when the hits to drop are half the hits or hold half the charge, the
+// point seed is what is wrong, and nothing is dropped.
+func (w *Workspace) restrictLate(v r3.Vector, t0, late float64) int {
+	f := w.f
+	isLate := func(i int) bool {
+		dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
+		return w.hitT[i]-t0-math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup > late
+	}
+	var all, lateQ float64
+	nLate := 0
+	for _, i := range w.hits {
+		all += w.hitQ[i]
+		if isLate(i) {
+			lateQ += w.hitQ[i]
+			nLate++
+		}
+	}
+	if !(lateQ < 0.5*all) || 2*nLate >= len(w.hits) {
+		return 0
+	}
+	kept := w.hits[:0]
+	removed := 0
+	for _, i := range w.hits {
+		if isLate(i) {
+			w.hitQ[i] = -1
+			removed++
+			continue
+		}
+		kept = append(kept, i)
+	}
+	w.hits = kept
+	return removed
 }
 
 // promptAfter is the longest a ring's light can take after the vertex
