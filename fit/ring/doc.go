@@ -70,7 +70,9 @@
 //
 // Fit seeds the vertex and time from a point fit of the hit times (grid,
 // then gonum's Nelder-Mead), restricts the hits to a prompt window about that
-// time, finds the ring axis by a search over directions for the charge at
+// time (leaving out hits later, seen from the point seed, than the
+// track's light plus three indirect-light delays: a muon's decay
+// electron), finds the ring axis by a search over directions for the charge at
 // the Cherenkov angle (with the charge centroid as a second candidate),
 // and for each hypothesis matches the energy to the
 // total charge and moves the start back along the track. Seven parameters
