@@ -518,23 +518,3 @@ func (w *Workspace) predict(h Hypothesis, tr Track) {
 		w.muI[i] *= scale
 	}
 }
-
-// edge returns, for the emission point at distance s along the track,
-// the cosine of the angle between the track and the sensor and the
-// sensor's weight: projected photocathode area over R^2 (without the
-// constant area) times acceptance and spectrum-averaged efficiency and
-// attenuation.
-func (w *Workspace) edge(d2, z, dn, un, s float64) (c, wt float64) {
-	R2 := d2 - 2*s*z + s*s
-	if R2 < 1 {
-		R2 = 1
-	}
-	R := math.Sqrt(R2)
-	c = (z - s) / R
-	ci := -(dn - s*un) / R // cosine of incidence on the inward-facing cathode
-	if ci <= 0 {
-		return c, 0
-	}
-	wt = ci / R2 * w.f.resp.acceptance(ci) * w.f.resp.attenuation(R)
-	return c, wt
-}

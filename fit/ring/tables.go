@@ -223,9 +223,3 @@ func cosCell(c float64) (int, float64) {
 	}
 	return j, (x - float64(j)) * (2.0 / uniNC)
 }
-
-// cumAt returns the photons of step k emitted with cosine below the point
-// (j, r) of cosCell.
-func (p *profileAt) cumAt(k, j int, r float64) float64 {
-	return p.cum[k*(uniNC+1)+j] + r*p.dens[k*uniNC+j]
-}
