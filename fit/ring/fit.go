@@ -298,11 +298,7 @@ const muonLossPerCm = 2.0
 // when the hits to drop are half the hits or hold half the charge, the
 // point seed is what is wrong, and nothing is dropped.
 func (w *Workspace) restrictLate(v r3.Vector, t0, late float64) int {
-	f := w.f
-	isLate := func(i int) bool {
-		dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
-		return w.hitT[i]-t0-math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup > late
-	}
+	isLate := func(i int) bool { return w.arrival(i, v)-t0 > late }
 	var all, lateQ float64
 	nLate := 0
 	for _, i := range w.hits {
@@ -315,18 +311,7 @@ func (w *Workspace) restrictLate(v r3.Vector, t0, late float64) int {
 	if !(lateQ < 0.5*all) || 2*nLate >= len(w.hits) {
 		return 0
 	}
-	kept := w.hits[:0]
-	removed := 0
-	for _, i := range w.hits {
-		if isLate(i) {
-			w.hitQ[i] = -1
-			removed++
-			continue
-		}
-		kept = append(kept, i)
-	}
-	w.hits = kept
-	return removed
+	return w.dropHits(isLate)
 }
 
 // promptAfter is the longest a ring's light can take after the vertex

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/golang/geo/r3"
+
 	"github.com/conelight/conelight/pmt"
 )
 
@@ -76,10 +78,16 @@ func (w *Workspace) setEvent(hits []pmt.Hit, win Window) (used, dropped int, err
 // event or long after it (a decay electron, the next interaction) is not
 // part of the ring. It returns the number removed.
 func (w *Workspace) restrict(lo, hi float64) int {
+	return w.dropHits(func(i int) bool { t := w.hitT[i]; return t < lo || t > hi })
+}
+
+// dropHits removes from the loaded event the hit sensors for which drop
+// is true (they count as unhit from then on) and returns their number.
+func (w *Workspace) dropHits(drop func(i int) bool) int {
 	kept := w.hits[:0]
 	removed := 0
 	for _, i := range w.hits {
-		if t := w.hitT[i]; t < lo || t > hi {
+		if drop(i) {
 			w.hitQ[i] = -1
 			removed++
 			continue
@@ -88,6 +96,15 @@ func (w *Workspace) restrict(lo, hi float64) int {
 	}
 	w.hits = kept
 	return removed
+}
+
+// arrival is hit sensor i's time less the light's travel time from v at
+// the spectrum-averaged group velocity: the emission time of a point
+// source at v that the hit implies.
+func (w *Workspace) arrival(i int, v r3.Vector) float64 {
+	f := w.f
+	dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
+	return w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
 }
 
 // nll is the negative log likelihood of the loaded event for hypothesis h

@@ -9,8 +9,22 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// gridHits bounds the hits the point seed's grid search evaluates.
+// gridHits bounds the hits the seeds' coarse searches (the point seed's
+// grid, the direction spiral) evaluate.
 const gridHits = 300
+
+// spreadHits returns at most n of the loaded event's hit sensors, evenly
+// spread over the list (all of them when there are no more than n).
+func (w *Workspace) spreadHits(n int) []int {
+	if len(w.hits) <= n {
+		return w.hits
+	}
+	sub := make([]int, n)
+	for k := range sub {
+		sub[k] = w.hits[k*len(w.hits)/n]
+	}
+	return sub
+}
 
 // goodChargeCap caps the charge weight of a hit in the point-fit goodness:
 // weighting by charge lets a bright ring outweigh a dimmer burst of light
@@ -29,8 +43,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 	good := func(hits []int, v r3.Vector, t0 float64) float64 {
 		var g float64
 		for _, i := range hits {
-			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
-			r := (w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup - t0) / sigma
+			r := (w.arrival(i, v) - t0) / sigma
 			g += math.Min(w.hitQ[i], goodChargeCap) * math.Exp(-0.5*r*r)
 		}
 		return g
@@ -46,8 +59,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 		res := res[:len(hits)]
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for k, i := range hits {
-			dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
-			r := w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
+			r := w.arrival(i, v)
 			res[k] = r
 			lo, hi = math.Min(lo, r), math.Max(hi, r)
 		}
@@ -79,13 +91,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 	}
 	// The grid needs only a rough vertex: it uses at most gridHits of the
 	// hits, evenly spread over the list; Nelder-Mead then uses them all.
-	grid := w.hits
-	if len(grid) > gridHits {
-		grid = make([]int, 0, gridHits)
-		for k := 0; k < gridHits; k++ {
-			grid = append(grid, w.hits[k*len(w.hits)/gridHits])
-		}
-	}
+	grid := w.spreadHits(gridHits)
 	R, H := f.tankRadius, f.tankHalfZ
 	step := math.Max(math.Max(R, H)/6, 50)
 	var bv r3.Vector
@@ -137,11 +143,7 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 	// the hits, evenly spread; the refinement scores them all.
 	coarse := score
 	if len(w.hits) > gridHits {
-		sub := make([]int, 0, gridHits)
-		for k := 0; k < gridHits; k++ {
-			sub = append(sub, w.hits[k*len(w.hits)/gridHits])
-		}
-		coarse = w.ringScore(v, sub)
+		coarse = w.ringScore(v, w.spreadHits(gridHits))
 	}
 	const n = 2000
 	var best r3.Vector
