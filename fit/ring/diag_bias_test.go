@@ -48,14 +48,8 @@ import (
 //
 // It asserts nothing: its numbers are read by a person.
 func TestDiagVertexBias(t *testing.T) {
-	v := os.Getenv("CONELIGHT_RING_DIAG")
-	if v == "" {
-		t.Skip("set CONELIGHT_RING_DIAG=<events> to run the vertex-bias diagnostic")
-	}
-	n, err := strconv.Atoi(v)
-	if err != nil || n <= 0 {
-		t.Fatalf("CONELIGHT_RING_DIAG = %q must be a positive integer", v)
-	}
+	n := studyEvents(t, "CONELIGHT_RING_DIAG", "the vertex-bias diagnostic")
+	var err error
 	var cfg sim.Config
 	switch tank := os.Getenv("CONELIGHT_RING_DIAG_TANK"); tank {
 	case "", "large":

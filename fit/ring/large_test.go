@@ -23,14 +23,7 @@ import (
 // speed, and asserts nothing beyond the absence of NaN in converged fits:
 // the targets are goals to report against, not regression baselines.
 func TestLargeTankTargets(t *testing.T) {
-	v := os.Getenv("CONELIGHT_RING_LARGE")
-	if v == "" {
-		t.Skip("set CONELIGHT_RING_LARGE=<events per point> to run the large-tank study")
-	}
-	n, err := strconv.Atoi(v)
-	if err != nil || n <= 0 {
-		t.Fatalf("CONELIGHT_RING_LARGE = %q must be a positive integer", v)
-	}
+	n := studyEvents(t, "CONELIGHT_RING_LARGE", "the large-tank study")
 	cfg := largeConfig(t, 11)
 	cfg.Workers = 0
 	s, f := setup(t, cfg, false)
@@ -97,6 +90,22 @@ func TestLargeTankTargets(t *testing.T) {
 		eBad, muBad := misIDCount(eTest, c.cut, phys.Electron), misIDCount(muTest, c.cut, phys.MuonMinus)
 		t.Logf("%-10s on the other half: e called mu %d of %d, mu called e %d of %d", c.name, eBad, len(eTest), muBad, len(muTest))
 	}
+}
+
+// studyEvents returns the number of events per point that the
+// environment variable name asks a study for, and skips the test when it
+// is not set.
+func studyEvents(t *testing.T, name, what string) int {
+	t.Helper()
+	v := os.Getenv(name)
+	if v == "" {
+		t.Skipf("set %s=<events per point> to run %s", name, what)
+	}
+	n, err := strconv.Atoi(v)
+	if err != nil || n <= 0 {
+		t.Fatalf("%s = %q must be a positive integer", name, v)
+	}
+	return n
 }
 
 // llrQuantile is the q quantile of the likelihood ratios of ps.
