@@ -1,89 +1,19 @@
-// Package fit reconstructs low-energy events (electron-like, a few MeV to
-// about 100 MeV, light from a short, nearly point-like track) in a
-// water-Cherenkov tank by maximum likelihood: vertex, time, direction and
-// kinetic energy with their uncertainties. It works on hits alone, with
-// the detector description (geom), the sensor model (pmt) and the water
-// optics (sim/optics); it never looks at simulation truth, so it serves
-// real data as well. Units: cm, ns, MeV, radians (wavelengths in nm).
+// Package fit holds what conelight's reconstruction shares: the track a
+// fitter reports (fit.Track), and the vocabulary its fitters use alike.
+// The fitters themselves live in the sub-packages:
 //
-// # Method
+//   - fit/lowenergy: events of a few to about 100 MeV, fitted as a point
+//     source of light (vertex and time from the hit-time residuals,
+//     direction from the Cherenkov-angle distribution, energy from a
+//     corrected hit count);
+//   - fit/ring: single-ring events of about 100 MeV to several GeV under
+//     the electron and muon hypotheses (predicted charge and time at every
+//     sensor from tabulated emission profiles).
 //
-// Hit selection. The hits inside the window of length (tank diagonal)/v_g
-// + 100 ns holding the most hits are kept: all signal hits of a vertex
-// inside the tank fall in it. The expected dark fraction of the selection
-// is NumSensors x DarkRate x window / (selected hits).
+// fit/resolution summarizes fitted samples against the truth and
+// fit/display draws events and study results.
 //
-// Vertex and time. The time likelihood is sum_i log f(t_i - t0 - |x_i -
-// v| / v_g) with v_g the mean group velocity of the detected Cherenkov
-// spectrum (Light) and f the residual density: the tabulated signal
-// density (prompt peak from the track extent and dispersion, late tail
-// from scattering and reflection) convolved with the sensor's Gaussian
-// transit-time spread, mixed with flat dark noise over the window. The
-// seed needs no starting point: a cubic grid over the volume (spacing a
-// quarter of the tank's size) scored by the largest number of residuals
-// in a window matched to the spacing, refined by halving the spacing
-// around the four best distinct candidates down to 25 cm, then the time
-// profiled with the likelihood. BFGS with the analytic gradient maximizes
-// from there (Nelder-Mead if BFGS fails). The hits of a short track lie
-// on a ring, and every point on the ring axis sees them at nearly equal
-// distances, so the likelihood has a long valley along the axis: the fit
-// scans that line and restarts from its best point.
-//
-// Uncertainties: the covariance is the inverse of the curvature of -log L
-// at the maximum (central differences of the analytic gradient). The
-// Cramer-Rao bound of the vertex for the event's hits is the inverse of
-// the Fisher information I_f sum_i g_i g_i^T, with I_f the Fisher
-// information of the residual density's location and g_i the gradient of
-// residual i. Goodness is the standardized log-likelihood.
-//
-// Direction. The likelihood of the cosines between the track direction
-// and the vertex-to-hit vectors of the prompt hits (residual inside
-// PromptWindow), under the tabulated cosine density (peaked near the
-// Cherenkov angle) with a flat dark part, maximized over the two angles
-// (a uniform set of 200 seed directions and the mean hit direction, then
-// Nelder-Mead in the tangent plane); its curvature gives DirErr.
-//
-// Energy. The effective hit count sums over prompt hits the occupancy
-// correction -ln(1-x)/x (x the fraction of hit sensors among the sensor
-// and its neighbours within 2.5 pitches), the inverse mean transmission
-// of the light path (absorption and scattering over the detected
-// spectrum) and the inverse angular acceptance at the incidence angle,
-// subtracts the expected dark hits of the prompt window, and divides by
-// the photocathode coverage and the mean spectral efficiency: it
-// estimates the Cherenkov photons emitted in the band, so one calibration
-// serves sensors of other coverage and efficiency. The tabulated
-// calibration maps it to kinetic energy, gives the energy spread and the
-// shift of the light-weighted vertex ahead of the track start, by which
-// the vertex is moved back along the fitted direction (Result.Shift).
-//
-// # Tables
-//
-// The densities and the calibration (Tables) come from the event
-// simulator and are embedded from data/*.txt: "demo" (demo tank, medium
-// sensors, 30% coverage) and "large" (large reference tank, large
-// sensors, 40%). New picks the set made for the tank closest in size. The
-// residual table is intrinsic (sensors without transit-time spread,
-// Tables.TTS = 0); New convolves it with the sensor's TTS and sets the
-// dark level from the sensor's dark rate, so other sensors need no new
-// tables (the convolution treats the first of several photoelectrons on
-// a sensor like a single one, which makes multi-photoelectron hits appear
-// later and wider than they are). The direction table belongs to the
-// prompt window of the sensor it was made with. To regenerate (about a
-// minute on two cores):
-//
-//	go generate ./fit
-//
-// which runs fit/internal/gentables for each set; see that command for
-// its flags and samples. Users may also fill Tables from their own
-// calibration and pass them in Config.
-//
-// # Concurrency
-//
-// A Fitter is immutable after New and safe for concurrent use by any
-// number of goroutines; each Fit takes its scratch space from a pool
-// inside the Fitter.
-//
-// Package fit/resolution computes resolution summaries (bias, 68%
-// quantiles, Gaussian-core energy resolution, each with its statistical
-// error) for regression tests.
+// Like every package under fit, this one imports the detector
+// description (geom, pmt) and the shared physics (sim/phys, sim/optics)
+// only, never the simulator, so that it serves real data.
 package fit

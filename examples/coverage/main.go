@@ -46,8 +46,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
-	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/fit/ring"
 	"github.com/conelight/conelight/geom"
@@ -376,11 +376,11 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 // fitLow reconstructs the events with the low-energy fitter and passes
 // the converged ones to add.
 func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
-	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		return err
 	}
-	results := make([]fit.Result, len(evs))
+	results := make([]lowenergy.Result, len(evs))
 	errs := make([]error, len(evs))
 	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
 		results[i], errs[i] = f.Fit(evs[i].Hits)

@@ -14,8 +14,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
-	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/fit/ring"
 	"github.com/conelight/conelight/sim"
@@ -72,7 +72,7 @@ func isElectromagnetic(pdg int) bool {
 // reconstruct fits every sample, prints the resolution table and writes
 // the figures.
 func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg sim.Config, samples []*sample) error {
-	low, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	low, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		return err
 	}
@@ -126,8 +126,8 @@ func truthOf(ev *event.Event) resolution.Sample {
 	return resolution.Sample{Vertex: p.Pos, Dir: p.Dir, Energy: p.Ekin}
 }
 
-func fitLow(ctx context.Context, f *fit.Fitter, sm *sample, n float64) error {
-	res := make([]fit.Result, len(sm.events))
+func fitLow(ctx context.Context, f *lowenergy.Fitter, sm *sample, n float64) error {
+	res := make([]lowenergy.Result, len(sm.events))
 	errs := make([]error, len(sm.events))
 	if err := parallel.Each(ctx, len(sm.events), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
 		res[i], errs[i] = f.Fit(sm.events[i].Hits)
@@ -260,7 +260,7 @@ func printTable(w io.Writer, samples []*sample) {
 }
 
 // writeFigures writes the pictures of the run to the output folder.
-func writeFigures(o options, low *fit.Fitter, cfg sim.Config, samples []*sample) ([]string, error) {
+func writeFigures(o options, low *lowenergy.Fitter, cfg sim.Config, samples []*sample) ([]string, error) {
 	var files []string
 	save := func(name string, f display.Figure, w, h vg.Length) error {
 		for _, ext := range []string{"png", "svg"} {

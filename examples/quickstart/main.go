@@ -8,7 +8,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -22,7 +22,7 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		log.Fatal(err)
 	}

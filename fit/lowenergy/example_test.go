@@ -1,4 +1,4 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"fmt"
@@ -6,7 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -26,7 +26,7 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		log.Fatal(err)
 	}

@@ -1,11 +1,11 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"math"
 	"testing"
 
-	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/fuzzhits"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 )
@@ -17,7 +17,7 @@ func FuzzFit(f *testing.F) {
 	if err != nil {
 		f.Fatal(err)
 	}
-	fitter, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	fitter, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		f.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"os"
@@ -13,7 +13,7 @@ import (
 // 68% <= 25 deg, energy resolution <= 15%). It is a study, not a guard:
 // run it with
 //
-//	CONELIGHT_LARGE=1 go test ./fit -run TestLargeTankTargets -v
+//	CONELIGHT_LARGE=1 go test ./fit/lowenergy -run TestLargeTankTargets -v
 //
 // It checks only that nearly all triggered events converge; the figures
 // are logged.

@@ -1,4 +1,4 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"encoding/json"
@@ -15,10 +15,10 @@ import (
 
 // update rewrites the resolution baseline:
 //
-//	go test ./fit -run TestResolution -update
+//	go test ./fit/lowenergy -run TestResolution -update
 var update = flag.Bool("update", false, "rewrite testdata/fit/resolution_demo.json from this run")
 
-const baselinePath = "../testdata/fit/resolution_demo.json"
+const baselinePath = "../../testdata/fit/resolution_demo.json"
 
 // The regression sample: electrons at 5, 10 and 20 MeV, uniform 1 m
 // inside the demo tank's sensor surface, isotropic, run seed 7.
@@ -81,7 +81,7 @@ type baseline struct {
 func TestResolution(t *testing.T) {
 	s := demoSample(t)
 	var cur baseline
-	cur.Comment = "fit resolution, demo tank, electrons 1 m inside the sensor surface; written by go test ./fit -run TestResolution -update"
+	cur.Comment = "fit resolution, demo tank, electrons 1 m inside the sensor surface; written by go test ./fit/lowenergy -run TestResolution -update"
 	cur.Seed, cur.Events = regressionSeed, regressionEvents
 	for _, e := range regressionEnergies {
 		sum, conv := summarize(t, s[e])
@@ -109,7 +109,7 @@ func TestResolution(t *testing.T) {
 	}
 	raw, err := os.ReadFile(baselinePath)
 	if err != nil {
-		t.Fatalf("%v (write it with go test ./fit -run TestResolution -update)", err)
+		t.Fatalf("%v (write it with go test ./fit/lowenergy -run TestResolution -update)", err)
 	}
 	var base baseline
 	if err := json.Unmarshal(raw, &base); err != nil {

@@ -1,11 +1,11 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"strings"
 	"testing"
 	"time"
 
-	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 )
 
@@ -19,14 +19,14 @@ func TestOptimizerLimits(t *testing.T) {
 	_, good := demoFitter(t)
 	evs := study(t, cfg, good, 10, 100, 500, 3)
 	for _, c := range []struct {
-		cfg  fit.Config
+		cfg  lowenergy.Config
 		want string
 	}{
-		{fit.Config{MaxIterations: 1}, "IterationLimit"},
-		{fit.Config{MaxDuration: time.Nanosecond}, "RuntimeLimit"},
+		{lowenergy.Config{MaxIterations: 1}, "IterationLimit"},
+		{lowenergy.Config{MaxDuration: time.Nanosecond}, "RuntimeLimit"},
 	} {
 		c.cfg.Detector, c.cfg.Sensor, c.cfg.Water = cfg.Detector, cfg.Sensor, cfg.Water
-		f, err := fit.New(c.cfg)
+		f, err := lowenergy.New(c.cfg)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -47,7 +47,7 @@ func TestOptimizerLimits(t *testing.T) {
 			t.Errorf("%s: no fit was stopped", c.want)
 		}
 	}
-	if _, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
+	if _, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
 		t.Errorf("negative MaxDuration: %v", err)
 	}
 }

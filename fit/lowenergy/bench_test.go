@@ -1,4 +1,4 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"testing"

@@ -1,4 +1,4 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"math"
@@ -9,7 +9,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
@@ -21,7 +21,7 @@ import (
 // sensors drawn uniformly, at times t0 + |x - v| / v_g + r with r from the
 // residual table smeared by the sensor's TTS, plus dark hits at the
 // sensor's dark rate over [t0-500, t0+1000] ns.
-func synthetic(rng *rand.Rand, f *fit.Fitter, det *geom.Detector, m pmt.Model, v r3.Vector, t0 float64, n int) []pmt.Hit {
+func synthetic(rng *rand.Rand, f *lowenergy.Fitter, det *geom.Detector, m pmt.Model, v r3.Vector, t0 float64, n int) []pmt.Hit {
 	bins := f.Tables().Residual
 	cum := make([]float64, len(bins))
 	total := 0.0
@@ -118,17 +118,17 @@ func TestBadInput(t *testing.T) {
 	cases := []struct {
 		name   string
 		hits   []pmt.Hit
-		status fit.Status
+		status lowenergy.Status
 		errSub string
 	}{
-		{"no hits", nil, fit.NoHits, ""},
-		{"four hits", good[:4], fit.TooFewHits, ""},
-		{"one sensor", oneSensor, fit.TooFewSensors, ""},
-		{"NaN time", withBad(3, pmt.Hit{Sensor: 1, Time: math.NaN()}), fit.BadInput, "hits[3].Time = NaN"},
-		{"Inf time", withBad(4, pmt.Hit{Sensor: 1, Time: math.Inf(1)}), fit.BadInput, "hits[4].Time = +Inf"},
-		{"NaN charge", withBad(5, pmt.Hit{Sensor: 1, Charge: math.NaN()}), fit.BadInput, "hits[5].Charge = NaN"},
-		{"sensor -1", withBad(0, pmt.Hit{Sensor: -1}), fit.BadInput, "hits[0].Sensor = -1"},
-		{"sensor N", withBad(1, pmt.Hit{Sensor: n}), fit.BadInput, "hits[1].Sensor ="},
+		{"no hits", nil, lowenergy.NoHits, ""},
+		{"four hits", good[:4], lowenergy.TooFewHits, ""},
+		{"one sensor", oneSensor, lowenergy.TooFewSensors, ""},
+		{"NaN time", withBad(3, pmt.Hit{Sensor: 1, Time: math.NaN()}), lowenergy.BadInput, "hits[3].Time = NaN"},
+		{"Inf time", withBad(4, pmt.Hit{Sensor: 1, Time: math.Inf(1)}), lowenergy.BadInput, "hits[4].Time = +Inf"},
+		{"NaN charge", withBad(5, pmt.Hit{Sensor: 1, Charge: math.NaN()}), lowenergy.BadInput, "hits[5].Charge = NaN"},
+		{"sensor -1", withBad(0, pmt.Hit{Sensor: -1}), lowenergy.BadInput, "hits[0].Sensor = -1"},
+		{"sensor N", withBad(1, pmt.Hit{Sensor: n}), lowenergy.BadInput, "hits[1].Sensor ="},
 	}
 	for _, c := range cases {
 		r, err := f.Fit(c.hits)
@@ -141,7 +141,7 @@ func TestBadInput(t *testing.T) {
 		if c.errSub == "" && (err != nil || r.Reason == "") {
 			t.Errorf("%s: error %v reason %q, want no error and a reason", c.name, err, r.Reason)
 		}
-		if _, err := f.TimeLogLikelihood(c.hits, r3.Vector{}, 0); err == nil && c.status != fit.TooFewSensors {
+		if _, err := f.TimeLogLikelihood(c.hits, r3.Vector{}, 0); err == nil && c.status != lowenergy.TooFewSensors {
 			t.Errorf("%s: TimeLogLikelihood accepted the hits", c.name)
 		}
 	}
@@ -161,22 +161,22 @@ func TestNewErrors(t *testing.T) {
 	}
 	badSensor := cfg.Sensor
 	badSensor.TTS = math.NaN()
-	badTables := &fit.Tables{Name: "x", TankRadius: 1, TankHalfHeight: 1}
+	badTables := &lowenergy.Tables{Name: "x", TankRadius: 1, TankHalfHeight: 1}
 	w, _ := optics.NewWater(optics.DefaultWaterConfig())
 	cases := []struct {
 		name string
-		c    fit.Config
+		c    lowenergy.Config
 		sub  string
 	}{
-		{"nil detector", fit.Config{Sensor: cfg.Sensor, Water: w}, "Detector is nil"},
-		{"no sensors", fit.Config{Detector: empty, Sensor: cfg.Sensor, Water: w}, "no sensors"},
-		{"bad sensor", fit.Config{Detector: cfg.Detector, Sensor: badSensor, Water: w}, "TTS"},
-		{"nil water", fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor}, "Water is nil"},
-		{"bad tables", fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, Tables: badTables}, "Tables.Residual"},
-		{"negative iterations", fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, MaxIterations: -1}, "MaxIterations = -1"},
+		{"nil detector", lowenergy.Config{Sensor: cfg.Sensor, Water: w}, "Detector is nil"},
+		{"no sensors", lowenergy.Config{Detector: empty, Sensor: cfg.Sensor, Water: w}, "no sensors"},
+		{"bad sensor", lowenergy.Config{Detector: cfg.Detector, Sensor: badSensor, Water: w}, "TTS"},
+		{"nil water", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor}, "Water is nil"},
+		{"bad tables", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, Tables: badTables}, "Tables.Residual"},
+		{"negative iterations", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, MaxIterations: -1}, "MaxIterations = -1"},
 	}
 	for _, c := range cases {
-		_, err := fit.New(c.c)
+		_, err := lowenergy.New(c.c)
 		if err == nil || !strings.Contains(err.Error(), c.sub) {
 			t.Errorf("%s: error %v, want one containing %q", c.name, err, c.sub)
 		}
@@ -193,7 +193,7 @@ func TestConcurrentFits(t *testing.T) {
 		p := electronIn(rng, cfg.Detector.Tank(), 100, 10)
 		events = append(events, synthetic(rng, f, cfg.Detector, cfg.Sensor, p.Pos, 0, 60))
 	}
-	serial := make([]fit.Result, len(events))
+	serial := make([]lowenergy.Result, len(events))
 	for i, h := range events {
 		before := append([]pmt.Hit(nil), h...)
 		r, err := f.Fit(h)
@@ -207,7 +207,7 @@ func TestConcurrentFits(t *testing.T) {
 			}
 		}
 	}
-	par := make([]fit.Result, len(events))
+	par := make([]lowenergy.Result, len(events))
 	var wg sync.WaitGroup
 	for g := range 4 {
 		wg.Add(1)
@@ -227,16 +227,16 @@ func TestConcurrentFits(t *testing.T) {
 }
 
 func TestTablesRoundTrip(t *testing.T) {
-	for _, name := range fit.EmbeddedTableNames() {
-		tb, err := fit.EmbeddedTables(name)
+	for _, name := range lowenergy.EmbeddedTableNames() {
+		tb, err := lowenergy.EmbeddedTables(name)
 		if err != nil {
 			t.Fatal(err)
 		}
 		var sb strings.Builder
-		if err := fit.WriteTables(&sb, tb); err != nil {
+		if err := lowenergy.WriteTables(&sb, tb); err != nil {
 			t.Fatal(err)
 		}
-		back, err := fit.ReadTables(strings.NewReader(sb.String()))
+		back, err := lowenergy.ReadTables(strings.NewReader(sb.String()))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -249,7 +249,7 @@ func TestTablesRoundTrip(t *testing.T) {
 			}
 		}
 	}
-	if _, err := fit.EmbeddedTables("nope"); err == nil {
+	if _, err := lowenergy.EmbeddedTables("nope"); err == nil {
 		t.Error("unknown table set accepted")
 	}
 	bad := []string{
@@ -260,7 +260,7 @@ func TestTablesRoundTrip(t *testing.T) {
 		"residual x\n",
 	}
 	for _, b := range bad {
-		if _, err := fit.ReadTables(strings.NewReader(b)); err == nil {
+		if _, err := lowenergy.ReadTables(strings.NewReader(b)); err == nil {
 			t.Errorf("ReadTables accepted %q", b)
 		}
 	}
@@ -272,7 +272,7 @@ func TestLight(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := pmt.Medium()
-	l, err := fit.NewLight(w, &m, 5000)
+	l, err := lowenergy.NewLight(w, &m, 5000)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -299,10 +299,10 @@ func TestLight(t *testing.T) {
 		}
 		prev = tr
 	}
-	if _, err := fit.NewLight(nil, &m, 100); err == nil {
+	if _, err := lowenergy.NewLight(nil, &m, 100); err == nil {
 		t.Error("nil water accepted")
 	}
-	if _, err := fit.NewLight(w, &m, math.NaN()); err == nil {
+	if _, err := lowenergy.NewLight(w, &m, math.NaN()); err == nil {
 		t.Error("NaN path accepted")
 	}
 }

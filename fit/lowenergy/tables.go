@@ -1,4 +1,4 @@
-package fit
+package lowenergy
 
 import (
 	"bufio"
@@ -309,7 +309,7 @@ func WriteTables(w io.Writer, t *Tables) error {
 		return err
 	}
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "# conelight fit tables (format: see fit.ReadTables)\n")
+	fmt.Fprintf(bw, "# conelight fit tables (format: see lowenergy.ReadTables)\n")
 	fmt.Fprintf(bw, "name %s\ntank %g %g\ntts %g\n", t.Name, t.TankRadius, t.TankHalfHeight, t.TTS)
 	keys := make([]string, 0, len(t.Meta))
 	for k := range t.Meta {

@@ -1,11 +1,11 @@
-package fit_test
+package lowenergy_test
 
 import (
 	"math/rand/v2"
 	"testing"
 
-	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
@@ -16,7 +16,7 @@ import (
 // fitted is one simulated and fitted event.
 type fitted struct {
 	truth resolution.Sample
-	res   fit.Result
+	res   lowenergy.Result
 	time  float64
 	hits  []pmt.Hit
 }
@@ -24,7 +24,7 @@ type fitted struct {
 // study simulates n electrons of energy e uniform in the fiducial volume
 // (fid cm inside the sensor surface), isotropic, and fits the triggered
 // ones. Events are numbered from first.
-func study(t testing.TB, cfg sim.Config, f *fit.Fitter, e, fid float64, first uint64, n int) []fitted {
+func study(t testing.TB, cfg sim.Config, f *lowenergy.Fitter, e, fid float64, first uint64, n int) []fitted {
 	t.Helper()
 	evs, err := sample.Simulate(cfg, fid, first, n, func(int) float64 { return e })
 	if err != nil {
@@ -69,25 +69,25 @@ func summarize(t testing.TB, evs []fitted) (resolution.Summary, int) {
 }
 
 // demoFitter returns the demo configuration (seed 7) and its fitter.
-func demoFitter(t testing.TB) (sim.Config, *fit.Fitter) {
+func demoFitter(t testing.TB) (sim.Config, *lowenergy.Fitter) {
 	t.Helper()
 	cfg, err := sim.DemoConfig(7)
 	return fitterFor(t, cfg, err)
 }
 
 // largeFitter returns the large-tank configuration and its fitter.
-func largeFitter(t testing.TB, seed uint64) (sim.Config, *fit.Fitter) {
+func largeFitter(t testing.TB, seed uint64) (sim.Config, *lowenergy.Fitter) {
 	t.Helper()
 	cfg, err := sample.LargeConfig(seed)
 	return fitterFor(t, cfg, err)
 }
 
-func fitterFor(t testing.TB, cfg sim.Config, err error) (sim.Config, *fit.Fitter) {
+func fitterFor(t testing.TB, cfg sim.Config, err error) (sim.Config, *lowenergy.Fitter) {
 	t.Helper()
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,18 +3,18 @@
 // density and the energy calibration. Run it through go generate in the
 // fit directory:
 //
-//	go generate ./fit
+//	go generate ./fit/lowenergy
 //
 // or for one table set:
 //
-//	go run ./fit/internal/gentables -config large -out fit/data/large.txt
+//	go run ./fit/lowenergy/internal/gentables -config large -out fit/lowenergy/data/large.txt
 //
 // Three samples of electrons, uniform in the fiducial volume (-fiducial cm
 // from the sensor surface) with isotropic directions, are simulated:
 //
 //  1. Residual table: sensors without transit-time spread and without
 //     dark noise; every hit's residual t - t_true - |x - v_true| / v_g at
-//     the true vertex and time (v_g from fit.NewLight) is histogrammed on
+//     the true vertex and time (v_g from lowenergy.NewLight) is histogrammed on
 //     variable bins. fit convolves it with the sensor's Gaussian TTS.
 //  2. Direction table: the real sensor, no dark noise; the cosine between
 //     the true direction and the true-vertex-to-hit vector of hits inside
@@ -31,8 +31,8 @@ import (
 	"log"
 	"math"
 
-	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
+	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim"
 )
@@ -60,7 +60,7 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	if err := fit.SaveTables(*out, t); err != nil {
+	if err := lowenergy.SaveTables(*out, t); err != nil {
 		log.Fatal(err)
 	}
 }
@@ -77,10 +77,10 @@ func config(name string, seed uint64) (sim.Config, float64, error) {
 	return sim.Config{}, 0, fmt.Errorf("gentables: unknown -config %q (demo, large)", name)
 }
 
-func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCal int, withTTS bool) (*fit.Tables, error) {
+func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCal int, withTTS bool) (*lowenergy.Tables, error) {
 	tank := cfg.Detector.Tank()
 	diag := math.Hypot(2*tank.SensorRadius(), 2*tank.SensorHalfHeight())
-	light, err := fit.NewLight(cfg.Water, &cfg.Sensor, diag)
+	light, err := lowenergy.NewLight(cfg.Water, &cfg.Sensor, diag)
 	if err != nil {
 		return nil, err
 	}
@@ -111,14 +111,14 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			}
 		}
 	}
-	t := &fit.Tables{
+	t := &lowenergy.Tables{
 		Name:           name,
 		TankRadius:     tank.SensorRadius(),
 		TankHalfHeight: tank.SensorHalfHeight(),
 		TTS:            intrinsic.Sensor.TTS,
 		Residual:       toDensity(edges, counts, float64(total)),
 		Meta: map[string]string{
-			"generator":   "fit/internal/gentables",
+			"generator":   "fit/lowenergy/internal/gentables",
 			"seed":        fmt.Sprint(seed),
 			"sensor":      cfg.Sensor.Name,
 			"coverage":    fmt.Sprintf("%.3f", cfg.Detector.Coverage()),
@@ -126,7 +126,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			"shape":       fmt.Sprintf("%d electrons at 5, 10, 20 MeV; residual hits %d", nShape, total),
 		},
 		// Placeholder calibration until step 3 (Neff does not depend on it).
-		Energy: []fit.CalibrationPoint{{Ekin: 1, Mean: 1, Sigma: 1}, {Ekin: 2, Mean: 2, Sigma: 1}},
+		Energy: []lowenergy.CalibrationPoint{{Ekin: 1, Mean: 1, Sigma: 1}, {Ekin: 2, Mean: 2, Sigma: 1}},
 	}
 
 	// 2. Direction cosines of prompt hits, real sensor timing.
@@ -137,7 +137,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		dirEdges[i] = -1 + 2*float64(i)/float64(dirBins)
 	}
 	t.Direction = uniformDensity(dirEdges)
-	provisional, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	provisional, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -167,7 +167,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 	t.Meta["direction"] = fmt.Sprintf("%d prompt hits in [%.2f, %.2f] ns", nDir, lo, hi)
 
 	// 3. Energy calibration with full fits.
-	fitter, err := fit.New(fit.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	fitter, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -177,7 +177,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		// and their fits are too poor to calibrate with.
 		energies = energies[1:]
 	}
-	var cal []fit.CalibrationPoint
+	var cal []lowenergy.CalibrationPoint
 	for k, e := range energies {
 		evs, err := sample.Simulate(cfg, fid, uint64(2*nShape+k*nCal), nCal, func(int) float64 { return e })
 		if err != nil {
@@ -206,7 +206,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		if err != nil {
 			return nil, fmt.Errorf("gentables: vertex shift at %v MeV: %w", e, err)
 		}
-		cal = append(cal, fit.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff)})
+		cal = append(cal, lowenergy.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff)})
 		log.Printf("%s: %5.1f MeV: Neff %.1f sigma %.1f shift %.1f cm (%d fitted of %d)", name, e, g.Mean.Value, g.Sigma.Value, gs.Mean.Value, len(neff), nCal)
 	}
 	t.Energy = cal
@@ -248,20 +248,20 @@ func findBin(edges []float64, x float64) int {
 	return lo
 }
 
-func toDensity(edges, counts []float64, total float64) []fit.Bin {
-	bins := make([]fit.Bin, len(counts))
+func toDensity(edges, counts []float64, total float64) []lowenergy.Bin {
+	bins := make([]lowenergy.Bin, len(counts))
 	for i := range counts {
 		w := edges[i+1] - edges[i]
-		bins[i] = fit.Bin{Lo: edges[i], Hi: edges[i+1], Density: counts[i] / (total * w)}
+		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: counts[i] / (total * w)}
 	}
 	return bins
 }
 
-func uniformDensity(edges []float64) []fit.Bin {
-	bins := make([]fit.Bin, len(edges)-1)
+func uniformDensity(edges []float64) []lowenergy.Bin {
+	bins := make([]lowenergy.Bin, len(edges)-1)
 	span := edges[len(edges)-1] - edges[0]
 	for i := range bins {
-		bins[i] = fit.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
+		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
 	}
 	return bins
 }
