@@ -265,30 +265,20 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 // to count as having left the tank.
 const exitTolerance = 0.1
 
-// fate maps a primary's transport record to the stored fate.
-func (w *worker) fate(pr transport.Primary) event.Fate {
+// fate returns a primary's fate from its transport record.
+func (w *worker) fate(pr transport.Primary) phys.Fate {
 	switch {
 	case pr.Skipped:
-		return event.NoFate
-	case pr.MuonFate != 0:
-		switch pr.MuonFate {
-		case muon.Exited:
-			return event.Exited
-		case muon.StoppedDecayed:
-			return event.StoppedDecayed
-		case muon.StoppedCaptured:
-			return event.StoppedCaptured
-		case muon.DecayedInFlight:
-			return event.DecayedInFlight
-		}
-		return event.NoFate
+		return phys.NoFate
+	case pr.MuonFate != phys.NoFate:
+		return pr.MuonFate
 	case pr.Particle.PDG == phys.Gamma:
-		return event.Interacted
+		return phys.Interacted
 	}
 	// An electron or positron is followed down to the Cherenkov
 	// threshold, unless it reaches the wall first.
 	if w.s.cfg.Detector.DistanceToWall(pr.End) < exitTolerance {
-		return event.Exited
+		return phys.Exited
 	}
-	return event.Stopped
+	return phys.Stopped
 }

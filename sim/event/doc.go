@@ -43,7 +43,7 @@
 //
 // Four trees and one string object. All names are of this package's
 // design. Integer codes: PDG Monte Carlo numbering for particles; Fate
-// codes as listed at the Fate constants; sensor surfaces as geom.Surface
+// codes as listed at the phys.Fate constants; sensor surfaces as geom.Surface
 // (1 barrel, 2 top, 3 bottom). Every tree ends with a branch crc32c
 // (uint32): the CRC-32C (Castagnoli) of the entry's other branches in
 // order, each little-endian, strings and arrays preceded by their length

@@ -88,7 +88,7 @@ type Track struct {
 	// Range is the straight distance from the start to the end point, cm.
 	Range float64
 	// Fate says how the track ended.
-	Fate Fate
+	Fate phys.Fate
 	// DecayTime is the time (ns, event clock) of the decay or capture;
 	// 0 when the particle did neither.
 	DecayTime float64
@@ -101,43 +101,6 @@ type Track struct {
 	// its descendants produced.
 	Secondaries int
 }
-
-// Fate says how a track ended. The values are stored in the file as the
-// integer codes given below and must not be renumbered.
-type Fate int
-
-const (
-	// NoFate (0): not recorded.
-	NoFate Fate = iota
-	// Exited (1): the particle left the tracking volume.
-	Exited
-	// Stopped (2): the particle came to rest (or fell below the tracking
-	// cut) and did not decay or get captured.
-	Stopped
-	// StoppedDecayed (3): it stopped and decayed at rest.
-	StoppedDecayed
-	// StoppedCaptured (4): it stopped and was captured by a nucleus.
-	StoppedCaptured
-	// DecayedInFlight (5): it decayed before stopping.
-	DecayedInFlight
-	// Interacted (6): it ended in an interaction that absorbed it (photon
-	// conversion or photoabsorption, a hadronic interaction).
-	Interacted
-
-	numFates // one past the last known fate
-)
-
-var fateNames = [numFates]string{"none", "exited", "stopped", "stopped-decayed", "stopped-captured", "decayed-in-flight", "interacted"}
-
-// String returns the fate's name.
-func (f Fate) String() string {
-	if f.valid() {
-		return fateNames[f]
-	}
-	return fmt.Sprintf("Fate(%d)", int(f))
-}
-
-func (f Fate) valid() bool { return f >= 0 && f < numFates }
 
 // Validate checks e for storage with a detector of nSensors sensors: every
 // hit sensor index in [0, nSensors), every float finite, every count
@@ -261,7 +224,7 @@ func badParticle(p *phys.Particle) (string, string) {
 
 func badTrack(tr *Track) (string, string) {
 	fate := ""
-	if !tr.Fate.valid() {
+	if !tr.Fate.Valid() {
 		fate = fmt.Sprintf("%d is not a known fate", int(tr.Fate))
 	}
 	return first(

@@ -45,7 +45,7 @@ func Example() {
 			Number: 0,
 			Truth: event.Truth{
 				Primaries:      []phys.Particle{muon},
-				Tracks:         []event.Track{{PDG: phys.MuonMinus, Length: 452, Range: 449, Fate: event.StoppedDecayed, DecayTime: 2100}},
+				Tracks:         []event.Track{{PDG: phys.MuonMinus, Length: 452, Range: 449, Fate: phys.StoppedDecayed, DecayTime: 2100}},
 				Photoelectrons: 3, PEDirect: 2, PEScattered: 1,
 				Triggered: true, TriggerTime: 12.5,
 			},

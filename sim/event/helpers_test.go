@@ -109,7 +109,7 @@ func randomEvent(rng *rand.Rand, number uint64, nSensors, maxHits int) Event {
 		for i := range t.Tracks {
 			t.Tracks[i] = Track{
 				PDG: randomParticle(rng).PDG, Length: rng.Float64() * 500, Range: rng.Float64() * 400,
-				Fate: Fate(rng.IntN(int(numFates))), DecayTime: rng.ExpFloat64() * 2000,
+				Fate: phys.Fate(rng.IntN(int(phys.Interacted) + 1)), DecayTime: rng.ExpFloat64() * 2000,
 				VisiblePhotons: rng.Float64() * 1e5, Secondaries: rng.IntN(50),
 			}
 		}

@@ -252,7 +252,7 @@ func (r *eventRecord) event() (Event, error) {
 		e.Truth.Tracks = make([]Track, nt)
 		for i := range e.Truth.Tracks {
 			e.Truth.Tracks[i] = Track{
-				PDG: int(r.TrackPDG[i]), Fate: Fate(r.TrackFate[i]), Secondaries: int(r.TrackSecondaries[i]),
+				PDG: int(r.TrackPDG[i]), Fate: phys.Fate(r.TrackFate[i]), Secondaries: int(r.TrackSecondaries[i]),
 				Length: r.TrackLength[i], Range: r.TrackRange[i], DecayTime: r.TrackDecay[i], VisiblePhotons: r.TrackVis[i],
 			}
 		}

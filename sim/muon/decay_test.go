@@ -95,12 +95,12 @@ func TestDecayAtRest(t *testing.T) {
 			}
 			sum += tr.DecayTime - tr.EndTime
 			switch tr.Fate {
-			case StoppedCaptured:
+			case phys.StoppedCaptured:
 				captured++
 				if tr.Decay.PDG != 0 {
 					t.Fatal("captured muon has a decay product")
 				}
-			case StoppedDecayed:
+			case phys.StoppedDecayed:
 				if tr.Decay.PDG != c.ePDG || tr.Decay.Time != tr.DecayTime || tr.Decay.Parent != 1 {
 					t.Fatalf("decay product %+v", tr.Decay)
 				}
@@ -145,7 +145,7 @@ func TestDecayInFlight(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != DecayedInFlight {
+		if tr.Fate != phys.DecayedInFlight {
 			t.Fatalf("fate %v", tr.Fate)
 		}
 		lengths[i] = tr.TrackLength

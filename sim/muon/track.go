@@ -12,39 +12,9 @@ import (
 	"github.com/conelight/conelight/sim/scatter"
 )
 
-// Fate says how a muon's track ended.
-type Fate int
-
-const (
-	// Exited: the muon left the volume.
-	Exited Fate = iota + 1
-	// StoppedDecayed: the muon stopped and decayed at rest.
-	StoppedDecayed
-	// StoppedCaptured: a mu- stopped and was captured by an oxygen
-	// nucleus; no decay electron.
-	StoppedCaptured
-	// DecayedInFlight: the muon decayed before it stopped.
-	DecayedInFlight
-)
-
-// String returns the fate's name.
-func (f Fate) String() string {
-	switch f {
-	case Exited:
-		return "exited"
-	case StoppedDecayed:
-		return "stopped-decayed"
-	case StoppedCaptured:
-		return "stopped-captured"
-	case DecayedInFlight:
-		return "decayed-in-flight"
-	}
-	return fmt.Sprintf("Fate(%d)", int(f))
-}
-
 // Truth summarizes one transported muon.
 type Truth struct {
-	Fate Fate
+	Fate phys.Fate
 	// TrackLength is the path length travelled, cm.
 	TrackLength float64
 	// Range is the straight-line distance from the start to the end
@@ -224,9 +194,9 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 
 		if exit || decay {
 			stopped = false
-			tr.Fate = Exited
+			tr.Fate = phys.Exited
 			if decay {
-				tr.Fate = DecayedInFlight
+				tr.Fate = phys.DecayedInFlight
 				tr.DecayTime = t
 				tr.Decay = p.emitDecay(muonKinematics(ek), pos, dir, t, ePDG, part.Track, rng, sink)
 			}
@@ -262,7 +232,7 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 	if part.PDG == phys.MuonPlus {
 		// The proper time left before the free decay: exponential with the
 		// free lifetime, whatever was spent in flight (no memory).
-		tr.Fate = StoppedDecayed
+		tr.Fate = phys.StoppedDecayed
 		tr.DecayTime = t + (tauDecay - tauAcc)
 		tr.Decay = p.emitDecay(rest, pos, dir, tr.DecayTime, ePDG, part.Track, rng, sink)
 		return tr, nil
@@ -271,10 +241,10 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 	// 1/OxygenLifetime, by capture with probability CaptureFraction.
 	tr.DecayTime = t + rng.ExpFloat64()*OxygenLifetime
 	if rng.Float64() < CaptureFraction {
-		tr.Fate = StoppedCaptured
+		tr.Fate = phys.StoppedCaptured
 		return tr, nil
 	}
-	tr.Fate = StoppedDecayed
+	tr.Fate = phys.StoppedDecayed
 	tr.Decay = p.emitDecay(rest, pos, dir, tr.DecayTime, ePDG, part.Track, rng, sink)
 	return tr, nil
 }

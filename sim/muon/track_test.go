@@ -36,10 +36,10 @@ func TestMeanRangeAndStraggling(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate == DecayedInFlight {
+		if tr.Fate == phys.DecayedInFlight {
 			continue
 		}
-		if tr.Fate != StoppedDecayed {
+		if tr.Fate != phys.StoppedDecayed {
 			t.Fatalf("fate %v", tr.Fate)
 		}
 		lengths = append(lengths, tr.TrackLength*p.rho)
@@ -76,7 +76,7 @@ func projectedWidths(t *testing.T, p *Physics, thick float64, n int, seed uint64
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != Exited || math.Abs(tr.EndPos.Z-thick) > 1e-6 {
+		if tr.Fate != phys.Exited || math.Abs(tr.EndPos.Z-thick) > 1e-6 {
 			t.Fatalf("muon did not cross the slab: %+v", tr)
 		}
 		angles = append(angles, math.Atan2(tr.EndDir.X, tr.EndDir.Z))
@@ -214,7 +214,7 @@ func TestBelowThresholdNoLight(t *testing.T) {
 	}
 	r40, _ := p.CSDARange(40)
 	r1, _ := p.CSDARange(1)
-	if sink.segments != 0 || tr.Fate != StoppedDecayed || math.Abs(tr.TrackLength*p.rho/(r40-r1)-1) > 0.05 {
+	if sink.segments != 0 || tr.Fate != phys.StoppedDecayed || math.Abs(tr.TrackLength*p.rho/(r40-r1)-1) > 0.05 {
 		t.Errorf("40 MeV muon: %d segments, fate %v, path %g cm (CSDA %g)", sink.segments, tr.Fate, tr.TrackLength, (r40-r1)/p.rho)
 	}
 }
@@ -252,7 +252,7 @@ func TestExit(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if tr.Fate != Exited || tr.DecayTime != 0 || tr.Decay.PDG != 0 {
+	if tr.Fate != phys.Exited || tr.DecayTime != 0 || tr.Decay.PDG != 0 {
 		t.Fatalf("truth %+v", tr)
 	}
 	if r := tr.EndPos.Norm(); r < 100 || r > 100+1e-6 {
@@ -348,7 +348,7 @@ func TestContinuousSlowingDown(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate == DecayedInFlight {
+		if tr.Fate == phys.DecayedInFlight {
 			continue
 		}
 		r, _ := p.CSDARange(ekin)

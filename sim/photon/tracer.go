@@ -14,12 +14,12 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// Fate says how a photon's life ended.
-type Fate uint8
+// Outcome says how a photon's life ended.
+type Outcome uint8
 
 const (
 	// Detected: converted to a photoelectron on a photocathode.
-	Detected Fate = iota
+	Detected Outcome = iota
 	// AbsorbedInWater: absorbed by the water on its way.
 	AbsorbedInWater
 	// AbsorbedByLiner: absorbed by the liner between sensors.
@@ -29,17 +29,17 @@ const (
 	// Lost: outside the sensor volume, outside the water band, or past
 	// the interaction limit.
 	Lost
-	numFates
+	numOutcomes
 )
 
-var fateNames = [numFates]string{"detected", "absorbed in water", "absorbed by liner", "not converted", "lost"}
+var outcomeNames = [numOutcomes]string{"detected", "absorbed in water", "absorbed by liner", "not converted", "lost"}
 
-// String returns the fate's name.
-func (f Fate) String() string {
-	if f < numFates {
-		return fateNames[f]
+// String returns the outcome's name.
+func (f Outcome) String() string {
+	if f < numOutcomes {
+		return outcomeNames[f]
 	}
-	return fmt.Sprintf("Fate(%d)", int(f))
+	return fmt.Sprintf("Outcome(%d)", int(f))
 }
 
 // Config holds the tracer's settings.
@@ -123,7 +123,7 @@ func NewTracer(det *geom.Detector, model *pmt.Model, water *optics.Water, cfg Co
 // reflection (Reflected wins over Scattered when both happened).
 //
 // Trace does not allocate.
-func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, Fate) {
+func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, Outcome) {
 	lambda := ph.Wavelength
 	if !(lambda >= t.bandLo && lambda <= t.bandHi) || !t.det.Contains(ph.Pos) {
 		return pmt.Photoelectron{}, Lost
@@ -223,14 +223,14 @@ func (t *Tracer) inwardNormal(q r3.Vector, s geom.Surface) r3.Vector {
 	return r3.Vector{X: -q.X / r, Y: -q.Y / r}
 }
 
-// Tally counts photon fates.
-type Tally [numFates]int
+// Tally counts photon outcomes.
+type Tally [numOutcomes]int
 
-// Count returns the number of photons with fate f.
-func (c *Tally) Count(f Fate) int { return c[f] }
+// Count returns the number of photons with outcome f.
+func (c *Tally) Count(f Outcome) int { return c[f] }
 
 // TraceAll traces every photon, appends the photoelectrons to dst and
-// adds the fates to tally (which may be nil).
+// adds the outcomes to tally (which may be nil).
 func (t *Tracer) TraceAll(photons []cherenkov.Photon, rng *rand.Rand, dst []pmt.Photoelectron, tally *Tally) []pmt.Photoelectron {
 	for _, ph := range photons {
 		pe, f := t.Trace(ph, rng)

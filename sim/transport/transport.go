@@ -54,7 +54,7 @@ type Primary struct {
 	// Descendants counts the secondaries of every generation.
 	Descendants int
 	// MuonFate is how a muon primary ended (0 for other particles).
-	MuonFate muon.Fate
+	MuonFate phys.Fate
 	// DecayTime is the time (ns) at which a muon primary decayed or was
 	// captured; 0 when it did neither.
 	DecayTime float64

@@ -1,0 +1,43 @@
+package phys
+
+import "fmt"
+
+// Fate says how a particle's track ended. It is the one record of a
+// track's end across the transport codes, the event truth and the event
+// files; the values are stored in files as the integer codes given below
+// and must never be renumbered (new fates take new codes at the end).
+type Fate int
+
+const (
+	// NoFate (0): not recorded.
+	NoFate Fate = iota
+	// Exited (1): the particle left the tracking volume.
+	Exited
+	// Stopped (2): the particle came to rest (or fell below the tracking
+	// cut) and did not decay or get captured.
+	Stopped
+	// StoppedDecayed (3): it stopped and decayed at rest.
+	StoppedDecayed
+	// StoppedCaptured (4): it stopped and was captured by a nucleus.
+	StoppedCaptured
+	// DecayedInFlight (5): it decayed before stopping.
+	DecayedInFlight
+	// Interacted (6): it ended in an interaction that absorbed it (photon
+	// conversion or photoabsorption, a hadronic interaction).
+	Interacted
+
+	numFates // one past the last known fate
+)
+
+var fateNames = [numFates]string{"none", "exited", "stopped", "stopped-decayed", "stopped-captured", "decayed-in-flight", "interacted"}
+
+// String returns the fate's name.
+func (f Fate) String() string {
+	if f.Valid() {
+		return fateNames[f]
+	}
+	return fmt.Sprintf("Fate(%d)", int(f))
+}
+
+// Valid reports whether f is one of the known fates.
+func (f Fate) Valid() bool { return f >= 0 && f < numFates }
