@@ -228,9 +228,16 @@ func est(e resolution.Estimate, scale float64) string {
 	return fmt.Sprintf("%.1f ± %.1f", scale*e.Value, scale*e.Err)
 }
 
+// interval writes a quantile with its asymmetric 1-sigma bounds: with
+// few events the bounds are far from symmetric, and a symmetric error
+// larger than the value would reach below zero.
+func interval(q resolution.Interval) string {
+	return fmt.Sprintf("%.1f +%.1f/-%.1f", q.Value, q.Hi-q.Value, q.Value-q.Lo)
+}
+
 func printTable(w io.Writer, samples []*sample) {
 	fmt.Fprintf(w, "\nreconstruction (resolutions of converged fits; identity from the two-hypothesis ring fit)\n")
-	fmt.Fprintf(w, "%-6s %8s %-10s %9s  %-13s %-13s %-13s %-13s %s\n",
+	fmt.Fprintf(w, "%-6s %8s %-10s %9s  %-17s %-17s %-13s %-13s %s\n",
 		"part.", "E (MeV)", "fitter", "conv/fit", "vertex68(cm)", "dir68(deg)", "E res. (%)", "E bias (%)", "identified correctly")
 	for _, sm := range samples {
 		if sm.fitter == "" {
@@ -240,17 +247,22 @@ func printTable(w io.Writer, samples []*sample) {
 		cols := []string{"-", "-", "-", "-"}
 		if len(sm.fitted) >= minSummary {
 			if s, err := resolution.Summarize(sm.fitted, sm.truth); err == nil {
-				cols = []string{est(s.Vertex68, 1), est(s.Direction68, 1), est(s.EnergyResolution, 100), est(s.EnergyBias, 100)}
+				cols = []string{interval(s.Vertex68Interval), interval(s.Direction68Interval), est(s.EnergyResolution, 100), est(s.EnergyBias, 100)}
 			}
 		}
 		id := "-"
 		if sm.fitter == "ring" && sm.identified > 0 {
-			f, _ := display.Fraction(sm.correct, sm.identified)
-			id = fmt.Sprintf("%d/%d = %.0f ± %.0f%%", sm.correct, sm.identified, 100*f.Value, 100*f.Err)
+			if b, err := resolution.Proportion(sm.correct, sm.identified); err == nil {
+				id = b.Percent()
+			}
 		}
-		fmt.Fprintf(w, "%-6s %8g %-10s %4d/%-4d  %-13s %-13s %-13s %-13s %s\n",
+		fmt.Fprintf(w, "%-6s %8g %-10s %4d/%-4d  %-17s %-17s %-13s %-13s %s\n",
 			sm.name, sm.energy, sm.fitter, len(sm.fitted), sm.tried, cols[0], cols[1], cols[2], cols[3], id)
 	}
+	fmt.Fprintf(w, "vertex68, dir68: 68%% quantiles of the distance to the true vertex and the angle to the true direction,\n"+
+		"  with the order statistics at ranks n p -/+ sqrt(n p (1-p)) as 1-sigma bounds; E res., E bias: width and mean\n"+
+		"  of the Gaussian core of (E_fit - E_true)/E_true; identified correctly: central 68.3%% CL Clopper-Pearson\n"+
+		"  interval, or the 90%% CL one-sided limit when all or none are\n")
 	for _, sm := range samples {
 		if sm.exiting > 0 {
 			fmt.Fprintf(w, "%s %g MeV: %d of %d ring fits leave the tank; their energies are lower bounds, left out of the resolutions\n",
@@ -409,7 +421,8 @@ func pullFigure(samples []*sample, save saver) error {
 }
 
 // misIDFigure plots the fraction of ring-fitted events identified as the
-// other particle against the true momentum.
+// other particle against the true momentum: central Clopper-Pearson
+// intervals, and one-sided limits where none (or all) are mis-identified.
 func misIDFigure(samples []*sample, save saver) error {
 	var ss []display.Series
 	idx := map[string]int{}
@@ -417,7 +430,7 @@ func misIDFigure(samples []*sample, save saver) error {
 		if sm.fitter != "ring" || sm.identified == 0 {
 			continue
 		}
-		f, err := display.Fraction(sm.identified-sm.correct, sm.identified)
+		b, err := resolution.Proportion(sm.identified-sm.correct, sm.identified)
 		if err != nil {
 			return err
 		}
@@ -432,12 +445,13 @@ func misIDFigure(samples []*sample, save saver) error {
 			return err
 		}
 		p := phys.Momentum(sm.energy, sp.Mass)
-		ss[i].Points = append(ss[i].Points, display.Point{X: p, Y: 100 * f.Value, Err: 100 * f.Err})
+		ss[i].Points = append(ss[i].Points, display.PointOfProportion(p, b, 100))
 	}
 	if len(ss) == 0 {
 		return nil
 	}
-	p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: "ring fit: e/mu mis-identification", XLabel: "true momentum (MeV/c)",
+	p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: "ring fit: e/mu mis-identification",
+		Caption: "bars: 68.3% CL Clopper-Pearson; arrows: 90% CL limits", XLabel: "true momentum (MeV/c)",
 		YLabel: "mis-identified (%)", Series: ss, YFromZero: true})
 	if err != nil {
 		return err
