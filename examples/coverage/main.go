@@ -480,10 +480,10 @@ func summaryOf(scale float64, f func(resolution.Summary) resolution.Estimate) fu
 }
 
 var quantities = []quantity{
-	{"vertex resolution", "68% quantile of the distance to the true vertex (cm)", "", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
-	{"direction resolution", "68% quantile of the angle to the true direction (deg)", "", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
-	{"energy resolution", "σ of the Gaussian core of ΔE/E (%)", "", summaryOf(100, func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
-	{"e/mu mis-identification, ring fit", "mis-identified (%)", "bars: 68.3% CL Clopper-Pearson; arrows: 90% CL limits", func(p point, x float64) (display.Point, bool) {
+	{"vertex resolution", "vertex 68% (cm)", "68% quantile of the distance to the true vertex", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
+	{"direction resolution", "direction 68% (deg)", "68% quantile of the angle to the true direction", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
+	{"energy resolution", "σ(ΔE/E) (%)", "σ of the Gaussian core of (E_fit - E_true)/E_true", summaryOf(100, func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
+	{"e/mu mis-identification, ring fit", "mis-identified (%)", "bars: 68.3% CL Clopper-Pearson, arrows: 90% CL limits", func(p point, x float64) (display.Point, bool) {
 		b, ok := misIDOf(p)
 		return display.PointOfProportion(x, b, 100), ok
 	}},
@@ -511,11 +511,7 @@ func studyRow(title, xlabel string, groups []string, pts [][]point, x func(point
 		if n == 0 {
 			continue
 		}
-		caption := title
-		if q.caption != "" {
-			caption += "; " + q.caption
-		}
-		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: q.title, Caption: caption, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
+		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: q.title + ", " + title, Caption: q.caption, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
 		if err != nil {
 			return nil, err
 		}

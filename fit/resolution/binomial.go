@@ -143,7 +143,7 @@ func Proportion(k, n int) (Binomial, error) {
 	return ClopperPearson(k, n, OneSigmaCL)
 }
 
-// Percent formats b in percent: "3/16 = 19 +12/-9 % (68.3% CL, Clopper-Pearson)",
+// Percent formats b in percent: "3/16 = 19 +15/-10 % (68.3% CL, Clopper-Pearson)",
 // "0/16 < 13 % (90% CL)", "16/16 > 87 % (90% CL)".
 func (b Binomial) Percent() string {
 	cl := fmt.Sprintf("%.3g%% CL", 100*b.CL)

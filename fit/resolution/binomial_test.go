@@ -104,9 +104,17 @@ func TestCoverage(t *testing.T) {
 	rng := rand.New(rand.NewPCG(21, 22))
 	const m = 20000
 	for _, n := range []int{16, 60} {
+		// The intervals of every possible k, computed once.
+		type intervals struct{ central, upper, lower, report Binomial }
+		of := make([]intervals, n+1)
+		for k := range of {
+			of[k].central, _ = ClopperPearson(k, n, OneSigmaCL)
+			of[k].upper, _ = Upper(k, n, 0.9)
+			of[k].lower, _ = Lower(k, n, 0.9)
+			of[k].report, _ = Proportion(k, n)
+		}
 		for _, p := range []float64{0.005, 0.05, 0.2, 0.5, 0.9, 0.99} {
 			var central, upper, lower, report int
-			ks := make(map[int]bool)
 			for range m {
 				k := 0
 				for range n {
@@ -114,10 +122,7 @@ func TestCoverage(t *testing.T) {
 						k++
 					}
 				}
-				ks[k] = true
-				c, _ := ClopperPearson(k, n, OneSigmaCL)
-				u, _ := Upper(k, n, 0.9)
-				l, _ := Lower(k, n, 0.9)
+				c, u, l, r := of[k].central, of[k].upper, of[k].lower, of[k].report
 				if c.Lo <= p && p <= c.Hi {
 					central++
 				}
@@ -127,7 +132,6 @@ func TestCoverage(t *testing.T) {
 				if p >= l.Lo {
 					lower++
 				}
-				r, _ := Proportion(k, n)
 				if r.Lo <= p && p <= r.Hi {
 					report++
 				}
@@ -151,8 +155,7 @@ func TestCoverage(t *testing.T) {
 			// Exact coverage of the central interval.
 			var exact float64
 			for k := 0; k <= n; k++ {
-				c, _ := ClopperPearson(k, n, OneSigmaCL)
-				if c.Lo <= p && p <= c.Hi {
+				if c := of[k].central; c.Lo <= p && p <= c.Hi {
 					le, _ := binomTail(k, n, p)
 					le1, _ := binomTail(k-1, n, p)
 					exact += le - le1
