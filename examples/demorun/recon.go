@@ -394,7 +394,12 @@ func resolutionFigure(samples []*sample, save saver) error {
 				e.Value, e.Err = 100*e.Value, 100*e.Err
 			}
 			cur[i].Name = k.name + ", " + k.fitter + " fit"
-			cur[i].Points = append(cur[i].Points, display.PointOf(sm.energy, e))
+			pt := display.PointOf(sm.energy, e)
+			if i < 2 { // quantiles: their asymmetric order-statistic bounds
+				q := []resolution.Interval{s.Vertex68Interval, s.Direction68Interval}[i]
+				pt.ErrLo, pt.ErrHi = q.Value-q.Lo, q.Hi-q.Value
+			}
+			cur[i].Points = append(cur[i].Points, pt)
 		}
 		series[k] = cur
 	}
