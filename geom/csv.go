@@ -5,11 +5,12 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/internal/atomicfile"
 )
 
 // csvFormat is the value of the @format directive this package reads and writes.
@@ -172,30 +173,11 @@ func WriteSensorCSV(w io.Writer, d *Detector) error {
 	return nil
 }
 
-// SaveSensorCSV writes d to the file at path atomically: it writes a
-// temporary file in the same directory and renames it over path, so a reader
-// never sees a partial file.
-func SaveSensorCSV(path string, d *Detector) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
+// SaveSensorCSV writes d to the file at path atomically (atomicfile.Write):
+// a reader never sees a partial file, and on error path is left as it was.
+func SaveSensorCSV(path string, d *Detector) error {
+	err := atomicfile.Write(path, 0o644, func(f *os.File) error { return WriteSensorCSV(f, d) })
 	if err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err := WriteSensorCSV(f, d); err != nil {
-		return err
-	}
-	if err := f.Sync(); err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	if err := f.Close(); err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	if err := os.Rename(f.Name(), path); err != nil {
 		return fmt.Errorf("geom: %w", err)
 	}
 	return nil
