@@ -220,27 +220,43 @@ func coverageOf(d *geom.Detector) (string, bool) {
 // sensor writes the sensor as the preset it differs least from plus the
 // keys that edit it.
 func (e *encoder) sensor(m pmt.Model) {
-	var best []kv
-	bestName := ""
-	var bestPreset pmt.Model
-	for _, name := range pmt.PresetNames() {
-		p, _ := pmt.Preset(name)
-		edits := sensorEdits(m, p)
-		if bestName == "" || len(edits) < len(best) {
-			best, bestName, bestPreset = edits, name, p
-		}
-	}
-	e.str("sensor.preset", bestName)
-	defName := bestPreset.Name
-	if len(best) > 0 {
+	name, edits := nearestPreset(m)
+	e.str("sensor.preset", name)
+	defName := name
+	if len(edits) > 0 {
 		defName += " (edited)"
 	}
 	if m.Name != defName {
 		e.str("sensor.name", m.Name)
 	}
-	for _, f := range best {
+	for _, f := range edits {
 		e.raw(f.key, f.val)
 	}
+}
+
+// NearestPreset returns the sensor preset (pmt.PresetNames) that m differs
+// least from, by the number of description keys of [sensor] it would take
+// to turn the preset into m, and those keys ("tts_sigma_ns", ...), names
+// aside. Ties go to the first preset in pmt.PresetNames order.
+func NearestPreset(m pmt.Model) (preset string, keys []string) {
+	name, edits := nearestPreset(m)
+	for _, e := range edits {
+		keys = append(keys, strings.TrimPrefix(e.key, "sensor."))
+	}
+	return name, keys
+}
+
+func nearestPreset(m pmt.Model) (string, []kv) {
+	var best []kv
+	bestName := ""
+	for _, name := range pmt.PresetNames() {
+		p, _ := pmt.Preset(name)
+		edits := sensorEdits(m, p)
+		if bestName == "" || len(edits) < len(best) {
+			best, bestName = edits, name
+		}
+	}
+	return bestName, best
 }
 
 type kv struct{ key, val string }

@@ -1,0 +1,60 @@
+// Package detflag gives every example program the same -detector flag:
+// the detector a program simulates or fits is a description file
+// (sim/setup format, e.g. testdata/setup/example.toml) or the name of a
+// built-in description ("demo", "large"), read by the one parser of
+// sim/setup.
+package detflag
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io/fs"
+	"os"
+	"slices"
+	"strings"
+
+	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/setup"
+)
+
+// Usage is the help text of the -detector flag.
+const Usage = "detector description: a description file (TOML, see testdata/setup/example.toml) or a built-in name (demo, large)"
+
+// Register adds -detector to fs with the default value def (a built-in
+// name or a file) and returns the flag's value, for Load.
+func Register(fs *flag.FlagSet, def string) *string {
+	return fs.String("detector", def, Usage)
+}
+
+// Load returns the detector that a -detector value names: the file at
+// spec if there is one, otherwise the built-in description of that name.
+// The error names the value and, when it is neither, the built-in names.
+func Load(spec string) (setup.Setup, error) {
+	if spec == "" {
+		return setup.Setup{}, fmt.Errorf("-detector is empty: give a description file or one of %s", strings.Join(setup.BuiltinNames(), ", "))
+	}
+	if _, err := os.Stat(spec); err == nil {
+		return setup.Load(spec)
+	} else if !errors.Is(err, fs.ErrNotExist) {
+		return setup.Setup{}, fmt.Errorf("-detector %s: %w", spec, err)
+	}
+	if slices.Contains(setup.BuiltinNames(), spec) {
+		return setup.Builtin(spec)
+	}
+	return setup.Setup{}, fmt.Errorf("-detector %q: no such file, and not a built-in description (%s)", spec, strings.Join(setup.BuiltinNames(), ", "))
+}
+
+// SimConfig returns the simulator configuration of detector s with the
+// given run seed and the simulator's defaults for everything else. It is
+// the one place the examples turn a description into a sim.Config.
+func SimConfig(s setup.Setup, seed uint64) sim.Config {
+	var c sim.Config
+	c.Detector = s.Detector
+	c.Sensor = s.Sensor
+	c.Water = s.Water
+	c.Liner = s.Liner
+	c.Trigger = s.Trigger
+	c.Seed = seed
+	return c
+}
