@@ -94,3 +94,20 @@ func TestExampleFileAlternatives(t *testing.T) {
 		}
 	}
 }
+
+// The description files shown in the README parse.
+func TestReadmeDescriptions(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	blocks := regexp.MustCompile("(?s)```toml\n(.*?)```").FindAllSubmatch(data, -1)
+	if len(blocks) == 0 {
+		t.Fatal("README shows no description file")
+	}
+	for i, b := range blocks {
+		if _, err := Parse(b[1], "README.toml"); err != nil {
+			t.Errorf("README description %d: %v", i, err)
+		}
+	}
+}
