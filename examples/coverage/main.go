@@ -33,6 +33,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
@@ -89,6 +90,15 @@ var models = map[string]func() pmt.Model{"large": pmt.Large, "medium": pmt.Mediu
 // pdg returns the PDG code of o.particle (checked by validate).
 func (o *options) pdg() int { p, _ := phys.ParsePDG(o.particle); return p }
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "coverage",
+	Does:    "Measures how the reconstruction's resolutions (vertex, direction, energy 68%, each with its statistical error) change with photocathode coverage, sensor class, transit-time spread and water attenuation in the demo tank.",
+	Reads:   "nothing (simulates its own events)",
+	Writes:  "the table on standard output; plots (PNG, SVG) into -out",
+	Example: "go run ./examples/coverage -energy 20 -n 400 -coverage 0.1,0.2,0.3,0.4 -sensors medium,large",
+}
+
 func main() {
 	var o options
 	flag.StringVar(&o.particle, "particle", "e-", "particle: e-, e+, gamma, mu-, mu+")
@@ -103,7 +113,7 @@ func main() {
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
 	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to 100 MeV, ring otherwise)")
-	flag.Parse()
+	cli.Parse(usage)
 	var err error
 	if o.coverages, err = parseList("-coverage", *cov); err != nil {
 		fail(err)
