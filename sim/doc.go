@@ -39,5 +39,23 @@
 // number and length); sim/event.Merge joins the shard files. Events stream to the caller in number order, with at most
 // a few per worker in memory.
 //
+// # Which water
+//
+// Three descriptions of the water answer three questions and are kept
+// apart because each model needs different numbers:
+//
+//   - Setup.Water, an *optics.Water (sim/optics), is its optics:
+//     refractive and group index, absorption and scattering lengths over
+//     the wavelength band, for Cherenkov emission and photon tracing (the
+//     fitters use the same one);
+//   - material.Water() (sim/material) is the medium charged particles lose
+//     energy and scatter in: density, electron density, mean excitation
+//     energy, radiation length, for sim/em and sim/muon;
+//   - gen.Water (sim/gen) is the neutrino target: the nucleons of H2O that
+//     the quasi-elastic generator strikes.
+//
+// Changing the optics (temperature, absorption) leaves the transport
+// medium at its tabulated density.
+//
 // A *Simulator is immutable after New and safe for concurrent use.
 package sim

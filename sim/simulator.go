@@ -70,6 +70,8 @@ func New(cfg Config) (*Simulator, error) {
 		muCfg = muon.DefaultConfig()
 		muCfg.ThresholdIndex = nmax
 	}
+	// Charged particles move through water as a medium (material.Water:
+	// stopping powers, radiation length), not through its optics.
 	physics, err := transport.New(material.Water(), emCfg, muCfg)
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
