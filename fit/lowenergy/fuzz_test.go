@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/fuzzhits"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/pmt"
@@ -17,7 +18,7 @@ func FuzzFit(f *testing.F) {
 	if err != nil {
 		f.Fatal(err)
 	}
-	fitter, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	fitter, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg)})
 	if err != nil {
 		f.Fatal(err)
 	}
@@ -36,11 +37,11 @@ func FuzzFit(f *testing.F) {
 			hits = hits[:2000]
 		}
 		r, err := fitter.Fit(hits)
-		if err != nil || !r.Converged {
+		if err != nil || r.Status != fit.Converged {
 			return
 		}
-		vals := []float64{r.Vertex.X, r.Vertex.Y, r.Vertex.Z, r.Time, r.Dir.X, r.Dir.Y, r.Dir.Z, r.Energy,
-			r.VertexErr.X, r.VertexErr.Y, r.VertexErr.Z, r.TimeErr, r.DirErr, r.EnergyErr, r.LogLikelihood}
+		vals := []float64{r.Track.Vertex.X, r.Track.Vertex.Y, r.Track.Vertex.Z, r.Track.Time, r.Track.Dir.X, r.Track.Dir.Y, r.Track.Dir.Z, r.Track.Ekin,
+			r.Errors.Vertex.X, r.Errors.Vertex.Y, r.Errors.Vertex.Z, r.Errors.Time, r.Errors.Angle[0], r.Errors.Angle[1], r.Errors.Ekin, r.LogLikelihood}
 		for i, v := range vals {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				t.Fatalf("converged result has non-finite value %d: %+v", i, r)

@@ -74,7 +74,7 @@ type Tables struct {
 func EmbeddedTables(name string) (*Tables, error) {
 	b, err := embeddedTables.ReadFile("data/" + name + ".txt")
 	if err != nil {
-		return nil, fmt.Errorf("fit: no embedded table set %q (have %s)", name, strings.Join(EmbeddedTableNames(), ", "))
+		return nil, fmt.Errorf("lowenergy: no embedded table set %q (have %s)", name, strings.Join(EmbeddedTableNames(), ", "))
 	}
 	return ReadTables(bytes.NewReader(b))
 }
@@ -106,7 +106,7 @@ func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
 		}
 	}
 	if best == nil {
-		return nil, errors.New("fit: no embedded tables")
+		return nil, errors.New("lowenergy: no embedded tables")
 	}
 	return best, nil
 }
@@ -116,13 +116,13 @@ func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
 // increasing energy and mean.
 func (t *Tables) Validate() error {
 	if t == nil {
-		return errors.New("fit: Tables is nil")
+		return errors.New("lowenergy: Tables is nil")
 	}
 	if !(t.TankRadius > 0 && t.TankHalfHeight > 0) || math.IsInf(t.TankRadius, 0) || math.IsInf(t.TankHalfHeight, 0) {
-		return fmt.Errorf("fit: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
+		return fmt.Errorf("lowenergy: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
 	}
 	if !(t.TTS >= 0) || math.IsInf(t.TTS, 0) {
-		return fmt.Errorf("fit: Tables.TTS = %v must be non-negative and finite", t.TTS)
+		return fmt.Errorf("lowenergy: Tables.TTS = %v must be non-negative and finite", t.TTS)
 	}
 	if err := validateBins("Residual", t.Residual, math.Inf(-1), math.Inf(1)); err != nil {
 		return err
@@ -131,14 +131,14 @@ func (t *Tables) Validate() error {
 		return err
 	}
 	if len(t.Energy) < 2 {
-		return fmt.Errorf("fit: Tables.Energy has %d points, need at least 2", len(t.Energy))
+		return fmt.Errorf("lowenergy: Tables.Energy has %d points, need at least 2", len(t.Energy))
 	}
 	for i, p := range t.Energy {
 		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) {
-			return fmt.Errorf("fit: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma and a finite Shift", i, p)
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma and a finite Shift", i, p)
 		}
 		if i > 0 && !(p.Ekin > t.Energy[i-1].Ekin && p.Mean > t.Energy[i-1].Mean) {
-			return fmt.Errorf("fit: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
 		}
 	}
 	return nil
@@ -146,23 +146,23 @@ func (t *Tables) Validate() error {
 
 func validateBins(name string, bins []Bin, lo, hi float64) error {
 	if len(bins) < 2 {
-		return fmt.Errorf("fit: Tables.%s has %d bins, need at least 2", name, len(bins))
+		return fmt.Errorf("lowenergy: Tables.%s has %d bins, need at least 2", name, len(bins))
 	}
 	sum := 0.0
 	for i, b := range bins {
 		if !(b.Hi > b.Lo) || math.IsInf(b.Lo, 0) || math.IsInf(b.Hi, 0) || !(b.Density >= 0) || math.IsInf(b.Density, 0) {
-			return fmt.Errorf("fit: Tables.%s[%d] = %+v must have finite Lo < Hi and a finite non-negative Density", name, i, b)
+			return fmt.Errorf("lowenergy: Tables.%s[%d] = %+v must have finite Lo < Hi and a finite non-negative Density", name, i, b)
 		}
 		if i > 0 && b.Lo != bins[i-1].Hi {
-			return fmt.Errorf("fit: Tables.%s[%d].Lo = %v does not continue bin %d (Hi = %v)", name, i, b.Lo, i-1, bins[i-1].Hi)
+			return fmt.Errorf("lowenergy: Tables.%s[%d].Lo = %v does not continue bin %d (Hi = %v)", name, i, b.Lo, i-1, bins[i-1].Hi)
 		}
 		if b.Lo < lo-1e-12 || b.Hi > hi+1e-12 {
-			return fmt.Errorf("fit: Tables.%s[%d] = [%v, %v) outside [%v, %v]", name, i, b.Lo, b.Hi, lo, hi)
+			return fmt.Errorf("lowenergy: Tables.%s[%d] = [%v, %v) outside [%v, %v]", name, i, b.Lo, b.Hi, lo, hi)
 		}
 		sum += b.Density * (b.Hi - b.Lo)
 	}
 	if !(sum > 0) {
-		return fmt.Errorf("fit: Tables.%s has zero integral", name)
+		return fmt.Errorf("lowenergy: Tables.%s has zero integral", name)
 	}
 	return nil
 }
@@ -195,13 +195,13 @@ func ReadTables(r io.Reader) (*Tables, error) {
 	}
 	parse := func(f []string, n int) ([]float64, error) {
 		if len(f) != n {
-			return nil, fmt.Errorf("fit: table line %d: want %d fields, have %d", line, n, len(f))
+			return nil, fmt.Errorf("lowenergy: table line %d: want %d fields, have %d", line, n, len(f))
 		}
 		v := make([]float64, n)
 		for i, s := range f {
 			x, err := strconv.ParseFloat(s, 64)
 			if err != nil {
-				return nil, fmt.Errorf("fit: table line %d: %v", line, err)
+				return nil, fmt.Errorf("lowenergy: table line %d: %v", line, err)
 			}
 			v[i] = x
 		}
@@ -212,7 +212,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 		for range n {
 			f, ok := next()
 			if !ok {
-				return nil, fmt.Errorf("fit: table ends inside a section at line %d", line)
+				return nil, fmt.Errorf("lowenergy: table ends inside a section at line %d", line)
 			}
 			v, err := parse(f, 3)
 			if err != nil {
@@ -229,18 +229,18 @@ func ReadTables(r io.Reader) (*Tables, error) {
 		}
 		count := func() (int, error) {
 			if len(f) != 2 {
-				return 0, fmt.Errorf("fit: table line %d: %q wants a count", line, f[0])
+				return 0, fmt.Errorf("lowenergy: table line %d: %q wants a count", line, f[0])
 			}
 			n, err := strconv.Atoi(f[1])
 			if err != nil || n < 0 || n > 1<<20 {
-				return 0, fmt.Errorf("fit: table line %d: bad count %q", line, f[1])
+				return 0, fmt.Errorf("lowenergy: table line %d: bad count %q", line, f[1])
 			}
 			return n, nil
 		}
 		switch f[0] {
 		case "name":
 			if len(f) != 2 {
-				return nil, fmt.Errorf("fit: table line %d: name wants one word", line)
+				return nil, fmt.Errorf("lowenergy: table line %d: name wants one word", line)
 			}
 			t.Name = f[1]
 		case "tank":
@@ -257,7 +257,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 			t.TTS = v[0]
 		case "meta":
 			if len(f) < 3 {
-				return nil, fmt.Errorf("fit: table line %d: meta wants a key and a value", line)
+				return nil, fmt.Errorf("lowenergy: table line %d: meta wants a key and a value", line)
 			}
 			t.Meta[f[1]] = strings.Join(f[2:], " ")
 		case "residual", "direction":
@@ -282,7 +282,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 			for range n {
 				g, ok := next()
 				if !ok {
-					return nil, fmt.Errorf("fit: table ends inside the energy section at line %d", line)
+					return nil, fmt.Errorf("lowenergy: table ends inside the energy section at line %d", line)
 				}
 				v, err := parse(g, 5)
 				if err != nil {
@@ -291,11 +291,11 @@ func ReadTables(r io.Reader) (*Tables, error) {
 				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], int(v[4])})
 			}
 		default:
-			return nil, fmt.Errorf("fit: table line %d: unknown keyword %q", line, f[0])
+			return nil, fmt.Errorf("lowenergy: table line %d: unknown keyword %q", line, f[0])
 		}
 	}
 	if err := sc.Err(); err != nil {
-		return nil, fmt.Errorf("fit: reading tables: %w", err)
+		return nil, fmt.Errorf("lowenergy: reading tables: %w", err)
 	}
 	if err := t.Validate(); err != nil {
 		return nil, err
@@ -340,7 +340,7 @@ func WriteTables(w io.Writer, t *Tables) error {
 func SaveTables(path string, t *Tables) (err error) {
 	f, err := os.CreateTemp(filepath.Dir(path), ".tables-*")
 	if err != nil {
-		return fmt.Errorf("fit: %w", err)
+		return fmt.Errorf("lowenergy: %w", err)
 	}
 	defer func() {
 		if err != nil {
@@ -353,13 +353,13 @@ func SaveTables(path string, t *Tables) (err error) {
 	}
 	// CreateTemp makes the file private; a table is a source file.
 	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("fit: %w", err)
+		return fmt.Errorf("lowenergy: %w", err)
 	}
 	if err = f.Close(); err != nil {
-		return fmt.Errorf("fit: %w", err)
+		return fmt.Errorf("lowenergy: %w", err)
 	}
 	if err = os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("fit: %w", err)
+		return fmt.Errorf("lowenergy: %w", err)
 	}
 	return nil
 }
