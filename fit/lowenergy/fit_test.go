@@ -2,6 +2,7 @@ package lowenergy_test
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -339,17 +340,31 @@ func TestTablesRoundTrip(t *testing.T) {
 	if _, err := lowenergy.EmbeddedTables("nope"); err == nil {
 		t.Error("unknown table set accepted")
 	}
-	bad := []string{
-		"bogus 1\n",
-		"residual 2\n0 1 1\n",
-		"tank 1\n",
-		"residual 2\n0 1 1\n2 3 1\n",
-		"residual x\n",
+	if _, err := lowenergy.ReadTables(strings.NewReader(minimalTables)); err != nil {
+		t.Errorf("minimal tables: %v", err)
+	}
+	bad := []struct{ file, want string }{
+		{"bogus 1\n", "unknown keyword"},
+		{"residual 2\n0 1 1\n", "ends inside a section"},
+		{"tank 1\n", "want 2 fields"},
+		{strings.Replace(minimalTables, "0 1 0.5\n", "2 3 0.5\n", 1), "does not continue"},
+		{"residual x\n", "bad count"},
+		{"residual 10001\n", "bad count"},
+		{minimalTables + "energy 1\n20 300 20 3 50\n", `a second "energy"`},
+		{strings.Replace(minimalTables, "50\n10", "-50\n10", 1), "non-negative integer"},
+		{strings.Replace(minimalTables, "50\n10", "5.5\n10", 1), "non-negative integer"},
+		{strings.Replace(minimalTables, "-1 0 0.5\n0 1 0.5", "-1 0 0.5\n0 6000 0.5", 1), "spans 6001 ns"},
 	}
 	for _, b := range bad {
-		if _, err := lowenergy.ReadTables(strings.NewReader(b)); err == nil {
-			t.Errorf("ReadTables accepted %q", b)
+		if _, err := lowenergy.ReadTables(strings.NewReader(b.file)); err == nil || !strings.Contains(err.Error(), b.want) {
+			t.Errorf("ReadTables(%q): %v, want an error containing %q", b.file, err, b.want)
 		}
+	}
+	// WriteTables writes only what ReadTables reads back.
+	tb, _ := lowenergy.ReadTables(strings.NewReader(minimalTables))
+	tb.Name = "two words"
+	if err := lowenergy.WriteTables(io.Discard, tb); err == nil || !strings.Contains(err.Error(), "one word") {
+		t.Errorf("Name with a space: %v", err)
 	}
 }
 

@@ -13,6 +13,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode"
 )
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
@@ -111,12 +112,32 @@ func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
 	return best, nil
 }
 
+// maxBins bounds the bins of a tabulated density (the embedded sets have
+// a few hundred), and maxResidualSpan (ns) the span of the residual
+// table: the fitter tabulates the residual density on a 0.1 ns grid per
+// event, so both bound its memory and time.
+const (
+	maxBins         = 10000
+	maxResidualSpan = 5000
+)
+
 // Validate checks the tables: finite non-negative densities on ordered,
-// contiguous bins, a direction table inside [-1, 1], and a calibration with
-// increasing energy and mean.
+// contiguous bins (at most 10,000; the residual table spanning at most
+// 5,000 ns), a direction table inside [-1, 1], and a calibration with
+// increasing energy and mean and non-negative event counts.
 func (t *Tables) Validate() error {
 	if t == nil {
 		return errors.New("lowenergy: Tables is nil")
+	}
+	// Name and the Meta keys are single words and the Meta values single
+	// lines, so that WriteTables writes a file ReadTables reads back.
+	if strings.ContainsFunc(t.Name, unicode.IsSpace) {
+		return fmt.Errorf("lowenergy: Tables.Name = %q must be one word", t.Name)
+	}
+	for k, v := range t.Meta {
+		if k == "" || strings.ContainsFunc(k, unicode.IsSpace) || strings.ContainsAny(v, "\r\n") {
+			return fmt.Errorf("lowenergy: Tables.Meta[%q] = %q: the key must be one word and the value one line", k, v)
+		}
 	}
 	if !(t.TankRadius > 0 && t.TankHalfHeight > 0) || math.IsInf(t.TankRadius, 0) || math.IsInf(t.TankHalfHeight, 0) {
 		return fmt.Errorf("lowenergy: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
@@ -127,6 +148,9 @@ func (t *Tables) Validate() error {
 	if err := validateBins("Residual", t.Residual, math.Inf(-1), math.Inf(1)); err != nil {
 		return err
 	}
+	if span := t.Residual[len(t.Residual)-1].Hi - t.Residual[0].Lo; span > maxResidualSpan {
+		return fmt.Errorf("lowenergy: Tables.Residual spans %v ns, more than %v", span, maxResidualSpan)
+	}
 	if err := validateBins("Direction", t.Direction, -1, 1); err != nil {
 		return err
 	}
@@ -134,8 +158,8 @@ func (t *Tables) Validate() error {
 		return fmt.Errorf("lowenergy: Tables.Energy has %d points, need at least 2", len(t.Energy))
 	}
 	for i, p := range t.Energy {
-		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) {
-			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma and a finite Shift", i, p)
+		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) || p.Events < 0 {
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma, a finite Shift and non-negative Events", i, p)
 		}
 		if i > 0 && !(p.Ekin > t.Energy[i-1].Ekin && p.Mean > t.Energy[i-1].Mean) {
 			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
@@ -145,8 +169,8 @@ func (t *Tables) Validate() error {
 }
 
 func validateBins(name string, bins []Bin, lo, hi float64) error {
-	if len(bins) < 2 {
-		return fmt.Errorf("lowenergy: Tables.%s has %d bins, need at least 2", name, len(bins))
+	if len(bins) < 2 || len(bins) > maxBins {
+		return fmt.Errorf("lowenergy: Tables.%s has %d bins, need 2 to %d", name, len(bins), maxBins)
 	}
 	sum := 0.0
 	for i, b := range bins {
@@ -176,8 +200,11 @@ func validateBins(name string, bins []Bin, lo, hi float64) error {
 //	residual <n>          followed by n lines "lo hi density" (ns, 1/ns)
 //	direction <n>         followed by n lines "lo hi density" (cosine)
 //	energy <n>            followed by n lines "ekin mean sigma shift events"
+//
+// Each keyword appears at most once; counts are at most 10,000.
 
-// ReadTables parses a table file.
+// ReadTables parses a table file and validates the tables
+// (Tables.Validate). Errors name the line.
 func ReadTables(r io.Reader) (*Tables, error) {
 	t := &Tables{Meta: map[string]string{}}
 	sc := bufio.NewScanner(r)
@@ -208,7 +235,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 		return v, nil
 	}
 	readBins := func(n int) ([]Bin, error) {
-		bins := make([]Bin, 0, n)
+		var bins []Bin
 		for range n {
 			f, ok := next()
 			if !ok {
@@ -222,17 +249,24 @@ func ReadTables(r io.Reader) (*Tables, error) {
 		}
 		return bins, nil
 	}
+	seen := map[string]bool{}
 	for {
 		f, ok := next()
 		if !ok {
 			break
+		}
+		if f[0] != "meta" {
+			if seen[f[0]] {
+				return nil, fmt.Errorf("lowenergy: table line %d: a second %q", line, f[0])
+			}
+			seen[f[0]] = true
 		}
 		count := func() (int, error) {
 			if len(f) != 2 {
 				return 0, fmt.Errorf("lowenergy: table line %d: %q wants a count", line, f[0])
 			}
 			n, err := strconv.Atoi(f[1])
-			if err != nil || n < 0 || n > 1<<20 {
+			if err != nil || n < 0 || n > maxBins {
 				return 0, fmt.Errorf("lowenergy: table line %d: bad count %q", line, f[1])
 			}
 			return n, nil
@@ -284,11 +318,18 @@ func ReadTables(r io.Reader) (*Tables, error) {
 				if !ok {
 					return nil, fmt.Errorf("lowenergy: table ends inside the energy section at line %d", line)
 				}
-				v, err := parse(g, 5)
+				if len(g) != 5 {
+					return nil, fmt.Errorf("lowenergy: table line %d: want 5 fields, have %d", line, len(g))
+				}
+				v, err := parse(g[:4], 4)
 				if err != nil {
 					return nil, err
 				}
-				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], int(v[4])})
+				events, err := strconv.Atoi(g[4])
+				if err != nil || events < 0 {
+					return nil, fmt.Errorf("lowenergy: table line %d: event count %q must be a non-negative integer", line, g[4])
+				}
+				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], events})
 			}
 		default:
 			return nil, fmt.Errorf("lowenergy: table line %d: unknown keyword %q", line, f[0])
@@ -303,14 +344,18 @@ func ReadTables(r io.Reader) (*Tables, error) {
 	return t, nil
 }
 
-// WriteTables writes t in the format ReadTables reads.
+// WriteTables writes t in the format ReadTables reads, every number in
+// the shortest form that reads back exactly.
 func WriteTables(w io.Writer, t *Tables) error {
 	if err := t.Validate(); err != nil {
 		return err
 	}
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "# conelight fit tables (format: see lowenergy.ReadTables)\n")
-	fmt.Fprintf(bw, "name %s\ntank %g %g\ntts %g\n", t.Name, t.TankRadius, t.TankHalfHeight, t.TTS)
+	if t.Name != "" {
+		fmt.Fprintf(bw, "name %s\n", t.Name)
+	}
+	fmt.Fprintf(bw, "tank %g %g\ntts %g\n", t.TankRadius, t.TankHalfHeight, t.TTS)
 	keys := make([]string, 0, len(t.Meta))
 	for k := range t.Meta {
 		keys = append(keys, k)
@@ -325,12 +370,12 @@ func WriteTables(w io.Writer, t *Tables) error {
 	}{{"residual", t.Residual}, {"direction", t.Direction}} {
 		fmt.Fprintf(bw, "%s %d\n", sec.name, len(sec.bins))
 		for _, b := range sec.bins {
-			fmt.Fprintf(bw, "%g %g %.6g\n", b.Lo, b.Hi, b.Density)
+			fmt.Fprintf(bw, "%g %g %g\n", b.Lo, b.Hi, b.Density)
 		}
 	}
 	fmt.Fprintf(bw, "energy %d\n", len(t.Energy))
 	for _, p := range t.Energy {
-		fmt.Fprintf(bw, "%g %.6g %.6g %.4g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
+		fmt.Fprintf(bw, "%g %g %g %g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
 	}
 	return bw.Flush()
 }
