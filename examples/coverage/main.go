@@ -47,6 +47,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -58,6 +59,7 @@ import (
 	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
+	simsetup "github.com/conelight/conelight/sim/setup"
 )
 
 type options struct {
@@ -112,7 +114,7 @@ func main() {
 	att := flag.String("attenuation", "", "comma-separated water attenuation lengths (cm at 400 nm) at medium 30% (empty: skip)")
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
-	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to 100 MeV, ring otherwise)")
+	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to the top of the low-energy fitter's calibrated range, ring otherwise)")
 	cli.Parse(usage)
 	var err error
 	if o.coverages, err = parseList("-coverage", *cov); err != nil {
@@ -195,16 +197,20 @@ type example struct {
 	energy float64 // fitted, MeV
 }
 
-// lowEnergyMax (MeV) is the top of the low-energy fitter's range (package fit).
-const lowEnergyMax = 100
-
 func isElectromagnetic(pdg int) bool {
 	return pdg == phys.Electron || pdg == phys.Positron || pdg == phys.Gamma
 }
 
-// useRing reports whether the study reconstructs with the single-ring fitter.
-func (o *options) useRing() bool {
-	return o.fitter == "ring" || (o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax))
+// useRing reports whether the study reconstructs with the single-ring
+// fitter; low is the low-energy fitter of the detector (nil with -fitter
+// ring), which "auto" uses for electromagnetic particles up to the top of
+// its calibrated range.
+func (o *options) useRing(low *lowenergy.Fitter) bool {
+	if o.fitter == "ring" {
+		return true
+	}
+	_, lowEnergyMax := low.EkinRange()
+	return o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax)
 }
 
 func (o *options) validate() error {
@@ -367,10 +373,17 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		}
 	}
 	n := s.Config().Water.Index(referenceWavelength)
-	if o.useRing() {
+	var low *lowenergy.Fitter
+	if o.fitter != "ring" {
+		c := s.Config()
+		if low, err = lowenergy.New(lowenergy.Config{Setup: simsetup.Setup{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner}}); err != nil {
+			return point{}, err
+		}
+	}
+	if o.useRing(low) {
 		err = fitRing(ctx, o, s.Config(), evs, &p, n, add)
 	} else {
-		err = fitLow(ctx, s.Config(), evs, n, add)
+		err = fitLow(ctx, low, evs, n, add)
 	}
 	if err != nil {
 		return point{}, err
@@ -386,11 +399,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 
 // fitLow reconstructs the events with the low-energy fitter and passes
 // the converged ones to add.
-func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
-	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
-	if err != nil {
-		return err
-	}
+func fitLow(ctx context.Context, f *lowenergy.Fitter, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
 	results := make([]lowenergy.Result, len(evs))
 	errs := make([]error, len(evs))
 	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
@@ -402,8 +411,8 @@ func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, 
 		if errs[i] != nil {
 			return fmt.Errorf("event %d: %w", evs[i].Number, errs[i])
 		}
-		if r.Converged {
-			add(evs[i], display.Track{Vertex: r.Vertex, Dir: r.Dir, CosCherenkov: 1 / n, Label: "low-energy fit"}, r.Energy)
+		if r.Status == fit.Converged {
+			add(evs[i], display.Track{Vertex: r.Track.Vertex, Dir: r.Track.Dir, CosCherenkov: 1 / n, Label: "low-energy fit"}, r.Track.Ekin)
 		}
 	}
 	return nil
