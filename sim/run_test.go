@@ -80,8 +80,8 @@ func TestRunWorkerIndependence(t *testing.T) {
 }
 
 func TestRunShards(t *testing.T) {
-	// Three shards, interleaved by event number, hold exactly the events
-	// of the unsplit run.
+	// Three shards, contiguous blocks of event numbers, hold exactly the
+	// events of the unsplit run.
 	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
 	all := collect(t, s, RunOptions{Count: 20})
 	var merged []*event.Event

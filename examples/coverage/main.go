@@ -87,7 +87,8 @@ const (
 
 var models = map[string]func() pmt.Model{"large": pmt.Large, "medium": pmt.Medium, "small": pmt.Small}
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "gamma": phys.Gamma, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus}
+// pdg returns the PDG code of o.particle (checked by validate).
+func (o *options) pdg() int { p, _ := phys.ParsePDG(o.particle); return p }
 
 // usage is the program's -h text.
 var usage = cli.Usage{
@@ -203,7 +204,7 @@ func isElectromagnetic(pdg int) bool {
 
 // useRing reports whether the study reconstructs with the single-ring fitter.
 func (o *options) useRing() bool {
-	return o.fitter == "ring" || (o.fitter == "auto" && !(isElectromagnetic(pdgByName[o.particle]) && o.energy <= lowEnergyMax))
+	return o.fitter == "ring" || (o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax))
 }
 
 func (o *options) validate() error {
@@ -213,8 +214,8 @@ func (o *options) validate() error {
 	if !(o.energy > 0) || math.IsInf(o.energy, 0) {
 		return fmt.Errorf("-energy = %g must be positive and finite", o.energy)
 	}
-	if _, ok := pdgByName[o.particle]; !ok {
-		return fmt.Errorf("-particle: unknown particle %q (want e-, e+, gamma, mu- or mu+)", o.particle)
+	if _, err := phys.ParsePDG(o.particle); err != nil {
+		return fmt.Errorf("-particle: %w", err)
 	}
 	for _, s := range o.sensors {
 		if _, ok := models[s]; !ok {
@@ -342,7 +343,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdgByName[o.particle], Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: o.pdg(), Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
@@ -414,7 +415,7 @@ func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, 
 // fitter's tables are an error.
 func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event, p *point, n float64, add func(*event.Event, display.Track, float64)) error {
 	want := ring.Muon
-	if isElectromagnetic(pdgByName[o.particle]) {
+	if isElectromagnetic(o.pdg()) {
 		want = ring.Electron
 	}
 	rf, err := ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true})

@@ -100,8 +100,6 @@ func parseEnergies(s string) ([]float64, error) {
 	return es, nil
 }
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}
-
 func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	if o.n <= 0 {
 		return fmt.Errorf("-n = %d must be positive", o.n)
@@ -127,9 +125,9 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	var samples []*sample
 	for _, name := range o.particles {
 		name = strings.TrimSpace(name)
-		pdg, ok := pdgByName[name]
-		if !ok {
-			return fmt.Errorf("-particle: unknown particle %q (want e-, e+, mu-, mu+ or gamma)", name)
+		pdg, err := phys.ParsePDG(name)
+		if err != nil {
+			return fmt.Errorf("-particle: %w", err)
 		}
 		for _, e := range o.energies {
 			g, err := gen.NewGun(gen.GunConfig{

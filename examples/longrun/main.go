@@ -81,14 +81,12 @@ func main() {
 	}
 }
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}
-
 // run simulates o.n events to o.out and returns the number written; on
 // cancellation the error is ctx's and the file holds the events done.
 func run(ctx context.Context, stdout, stderr io.Writer, o options) (int, error) {
-	pdg, ok := pdgByName[o.particle]
-	if !ok {
-		return 0, fmt.Errorf("-particle: unknown particle %q (want e-, e+, mu-, mu+ or gamma)", o.particle)
+	pdg, err := phys.ParsePDG(o.particle)
+	if err != nil {
+		return 0, fmt.Errorf("-particle: %w", err)
 	}
 	if o.n == 0 {
 		return 0, errors.New("-n must be positive")

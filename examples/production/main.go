@@ -66,9 +66,9 @@ func main() {
 }
 
 func run(ctx context.Context, o options) (int, error) {
-	pdg, ok := map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}[o.particle]
-	if !ok {
-		return 0, fmt.Errorf("-particle = %q: want e-, e+, mu-, mu+ or gamma", o.particle)
+	pdg, err := phys.ParsePDG(o.particle)
+	if err != nil {
+		return 0, fmt.Errorf("-particle: %w", err)
 	}
 	cfg, err := sim.DemoConfig(o.seed)
 	if err != nil {
