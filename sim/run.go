@@ -71,7 +71,7 @@ func NeutrinoTruth(info gen.Info) event.Neutrino {
 	}
 	return event.Neutrino{
 		PDG:     info.Neutrino,
-		Energy:  info.NeutrinoEnergy,
+		Energy:  info.NeutrinoEtot,
 		Dir:     info.NeutrinoDir,
 		Q2:      info.Q2,
 		Target:  info.Target,

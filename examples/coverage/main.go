@@ -332,7 +332,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdgByName[o.particle], Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: pdgByName[o.particle], Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
