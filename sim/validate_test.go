@@ -197,7 +197,7 @@ func TestBadArguments(t *testing.T) {
 		{"gen.NewGun reversed range", "5", gunWith(electron(gen.UniformEnergy(5, 1), iso), center)},
 		{"gen.NewGun Inf range", "+Inf", gunWith(electron(gen.UniformEnergy(1, inf), iso), center)},
 		{"gen.NewGun power law NaN index", "NaN", gunWith(electron(gen.PowerLaw(nan, 1, 10), iso), center)},
-		{"gen.NewGun unset energy", "Energy", gunWith(electron(gen.Spectrum{}, iso), center)},
+		{"gen.NewGun unset energy", "Ekin", gunWith(electron(gen.Spectrum{}, iso), center)},
 		{"gen.NewGun zero direction", "Direction: direction (0.0", gunWith(electron(ten, gen.Along(r3.Vector{})), center)},
 		{"gen.NewGun NaN cone", "halfAngle = NaN", gunWith(electron(ten, gen.InCone(r3.Vector{Z: 1}, nan)), center)},
 		{"gen.NewGun unset direction", "Direction", gunWith(electron(ten, gen.DirDist{}), center)},
