@@ -349,7 +349,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: o.pdg(), Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: o.pdg(), Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
