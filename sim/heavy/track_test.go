@@ -360,27 +360,34 @@ func TestContinuousSlowingDown(t *testing.T) {
 }
 
 func TestDecayLengthInFlight(t *testing.T) {
-	// With energy loss off (test hook) a 1 GeV muon keeps beta gamma, so
-	// its decay length is exponential with mean beta gamma c tau (PDG
-	// mean life; standard error mean/sqrt(n)).
-	p := newWater(t, Config{NoScattering: true, MaxStep: 1e4})
-	p.frozen = true
-	rng := newRNG(27, 28)
+	// With energy loss off (test hook) a 1 GeV particle keeps beta gamma,
+	// so its decay length is exponential with mean beta gamma c tau (PDG
+	// mean lives: muon 2196.98 ns, charged pion 26.033 ns; standard error
+	// mean/sqrt(n)).
 	const n = 4000
-	k := p.kin(1000)
-	lengths := make([]float64, n)
-	for i := range lengths {
-		tr, err := p.Track(muonAlongZ(phys.MuonPlus, 1000), ball{1e9}, rng, &countSink{})
+	for _, sp := range []Species{Muon(), ChargedPion()} {
+		p, err := New(material.Water(), sp, Config{NoScattering: true, MaxStep: 1e4})
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != phys.DecayedInFlight {
-			t.Fatalf("fate %v", tr.Fate)
+		p.frozen = true
+		rng := newRNG(27, 28)
+		k := p.kin(1000)
+		lengths := make([]float64, n)
+		for i := range lengths {
+			part := muonAlongZ(sp.Positive, 1000)
+			tr, err := p.Track(part, ball{1e9}, rng, &countSink{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tr.Fate != phys.DecayedInFlight {
+				t.Fatalf("fate %v", tr.Fate)
+			}
+			lengths[i] = tr.TrackLength
 		}
-		lengths[i] = tr.TrackLength
-	}
-	want := k.p / phys.MuonMass * phys.SpeedOfLight * phys.MuonLifetime
-	if m, _ := meanSD(lengths); math.Abs(m/want-1) > 5/math.Sqrt(n) {
-		t.Errorf("mean decay length %.4g cm, want %.4g", m, want)
+		want := k.p / sp.Mass * phys.SpeedOfLight * sp.Lifetime
+		if m, _ := meanSD(lengths); math.Abs(m/want-1) > 5/math.Sqrt(n) {
+			t.Errorf("%s: mean decay length %.4g cm, want %.4g", sp.Name, m, want)
+		}
 	}
 }
