@@ -57,6 +57,12 @@ func Lookup(pdg int) (Species, error) {
 		return Species{pdg, "p", ProtonMass, +1}, nil
 	case NeutronCode:
 		return Species{pdg, "n", NeutronMass, 0}, nil
+	case PionPlusCode:
+		return Species{pdg, "pi+", PionMass, +1}, nil
+	case PionMinusCode:
+		return Species{pdg, "pi-", PionMass, -1}, nil
+	case NeutralPionCode:
+		return Species{pdg, "pi0", PionZeroMass, 0}, nil
 	}
 	return Species{}, fmt.Errorf("phys: unknown PDG code %d", pdg)
 }
