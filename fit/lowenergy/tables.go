@@ -6,10 +6,9 @@ import (
 	"embed"
 	"errors"
 	"fmt"
+	"github.com/conelight/conelight/geom/safefile"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"sort"
 	"strconv"
 	"strings"
@@ -382,29 +381,6 @@ func WriteTables(w io.Writer, t *Tables) error {
 
 // SaveTables writes t to path atomically (temporary file in the same
 // directory, then rename).
-func SaveTables(path string, t *Tables) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), ".tables-*")
-	if err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err = WriteTables(f, t); err != nil {
-		return err
-	}
-	// CreateTemp makes the file private; a table is a source file.
-	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	if err = os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	return nil
+func SaveTables(path string, t *Tables) error {
+	return safefile.Write(path, func(w io.Writer) error { return WriteTables(w, t) })
 }
