@@ -10,8 +10,9 @@
 //	go run ./examples/coverage -attenuation 1500,3000,6000 -tts ""
 //	go run ./examples/coverage -particle mu- -energy 400 -n 40 -sensors medium -tts ""
 //
-// Electrons, positrons and photons up to 100 MeV are reconstructed with the
-// low-energy fitter (package fit); other particles and energies with the
+// Electrons, positrons and photons up to the top of the low-energy
+// fitter's calibration (lowenergy.Fitter.EkinRange, 100 MeV for the
+// built-in tables) are reconstructed with it (fit/lowenergy); other particles and energies with the
 // single-ring fitter (fit/ring), which fits both the electron and the muon
 // hypothesis and so also gives the e/mu mis-identification (about a second
 // per event: keep -n small); -fitter chooses explicitly.
@@ -33,6 +34,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
@@ -88,7 +90,17 @@ const (
 
 var models = map[string]func() pmt.Model{"large": pmt.Large, "medium": pmt.Medium, "small": pmt.Small}
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "gamma": phys.Gamma, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus}
+// pdg returns the PDG code of o.particle (checked by validate).
+func (o *options) pdg() int { p, _ := phys.ParsePDG(o.particle); return p }
+
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "coverage",
+	Does:    "Measures how the reconstruction's resolutions (vertex, direction, energy 68%, each with its statistical error) change with photocathode coverage, sensor class, transit-time spread and water attenuation in the demo tank.",
+	Reads:   "nothing (simulates its own events)",
+	Writes:  "the table on standard output; plots (PNG, SVG) into -out",
+	Example: "go run ./examples/coverage -energy 20 -n 400 -coverage 0.1,0.2,0.3,0.4 -sensors medium,large",
+}
 
 func main() {
 	var o options
@@ -104,7 +116,7 @@ func main() {
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
 	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to the top of the low-energy fitter's calibrated range, ring otherwise)")
-	flag.Parse()
+	cli.Parse(usage)
 	var err error
 	if o.coverages, err = parseList("-coverage", *cov); err != nil {
 		fail(err)
@@ -199,7 +211,7 @@ func (o *options) useRing(low *lowenergy.Fitter) bool {
 		return true
 	}
 	_, lowEnergyMax := low.EkinRange()
-	return o.fitter == "auto" && !(isElectromagnetic(pdgByName[o.particle]) && o.energy <= lowEnergyMax)
+	return o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax)
 }
 
 func (o *options) validate() error {
@@ -209,8 +221,8 @@ func (o *options) validate() error {
 	if !(o.energy > 0) || math.IsInf(o.energy, 0) {
 		return fmt.Errorf("-energy = %g must be positive and finite", o.energy)
 	}
-	if _, ok := pdgByName[o.particle]; !ok {
-		return fmt.Errorf("-particle: unknown particle %q (want e-, e+, gamma, mu- or mu+)", o.particle)
+	if _, err := phys.ParsePDG(o.particle); err != nil {
+		return fmt.Errorf("-particle: %w", err)
 	}
 	for _, s := range o.sensors {
 		if _, ok := models[s]; !ok {
@@ -338,7 +350,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdgByName[o.particle], Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: o.pdg(), Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
@@ -413,7 +425,7 @@ func fitLow(ctx context.Context, f *lowenergy.Fitter, evs []*event.Event, n floa
 // fitter's tables are an error.
 func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event, p *point, n float64, add func(*event.Event, display.Track, float64)) error {
 	want := ring.Muon
-	if isElectromagnetic(pdgByName[o.particle]) {
+	if isElectromagnetic(o.pdg()) {
 		want = ring.Electron
 	}
 	rf, err := ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true})

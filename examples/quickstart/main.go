@@ -4,6 +4,7 @@ package main
 
 import (
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"log"
 
 	"github.com/golang/geo/r3"
@@ -15,7 +16,17 @@ import (
 	"github.com/conelight/conelight/sim/setup"
 )
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "quickstart",
+	Does:    "The README's first program: simulates five 10 MeV electrons in the demo tank and reconstructs them.",
+	Reads:   "nothing",
+	Writes:  "one line per event on standard output",
+	Example: "go run ./examples/quickstart",
+}
+
 func main() {
+	cli.Parse(usage)
 	cfg, err := sim.DemoConfig(2026) // demo tank, 30% coverage of 20 cm sensors, pure water
 	if err != nil {
 		log.Fatal(err)

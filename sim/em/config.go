@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/conelight/conelight/sim/cherenkov"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -62,21 +63,22 @@ type Config struct {
 
 // DefaultConfig returns the cuts tied to the Cherenkov threshold of water
 // with n = 1.34, steps of at most 1 cm and 3% continuous energy loss.
-func DefaultConfig() Config { return configForIndex(1.34) }
+func DefaultConfig() Config {
+	// 1.34 is a valid index: ConfigForIndex cannot fail (TestThresholds
+	// checks the cuts).
+	c, _ := ConfigForIndex(1.34)
+	return c
+}
 
 // ConfigForIndex returns DefaultConfig with the cuts tied to the
 // Cherenkov threshold of refractive index n instead: charged and delta
 // cuts at the threshold kinetic energy, photon and brems cuts at the
 // photon energy whose Compton edge reaches it.
 func ConfigForIndex(n float64) (Config, error) {
-	if _, err := CherenkovThreshold(n); err != nil {
-		return Config{}, err
+	tc, err := cherenkov.ThresholdKinetic(phys.ElectronMass, n)
+	if err != nil {
+		return Config{}, fmt.Errorf("em: %w", err)
 	}
-	return configForIndex(n), nil
-}
-
-func configForIndex(n float64) Config {
-	tc := cherenkovThreshold(n)
 	kc := ComptonThreshold(tc)
 	return Config{
 		RefractiveIndex:       n,
@@ -86,20 +88,7 @@ func configForIndex(n float64) Config {
 		PhotonCut:             kc,
 		MaxStep:               1,
 		MaxEnergyLossFraction: 0.03,
-	}
-}
-
-// CherenkovThreshold returns the electron kinetic energy (MeV) at which
-// beta = 1/n: T = m (n/sqrt(n^2-1) - 1).
-func CherenkovThreshold(n float64) (float64, error) {
-	if !(n > 1) || math.IsInf(n, 0) {
-		return 0, fmt.Errorf("em: refractive index %g must be finite and above 1", n)
-	}
-	return cherenkovThreshold(n), nil
-}
-
-func cherenkovThreshold(n float64) float64 {
-	return phys.ElectronMass * (n/math.Sqrt(n*n-1) - 1)
+	}, nil
 }
 
 // ComptonThreshold returns the photon energy k (MeV) whose Compton edge,

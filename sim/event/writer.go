@@ -119,14 +119,20 @@ func create(path string, det *geom.Detector, sensor pmt.Model, run RunInfo, chun
 	if err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
+	if err := registerLeafStreamers(w.file, w.tree); err != nil {
+		return nil, fmt.Errorf("event: Create %s: %w", path, err)
+	}
 	return w, nil
 }
 
 // writeSingle writes a tree with one entry holding the columns' values.
-func writeSingle(dir riofs.Directory, name string, cols []column) error {
+func writeSingle(f *riofs.File, name string, cols []column) error {
 	var crc uint32
-	tw, err := rtree.NewWriter(dir, name, writeVars(cols, &crc))
+	tw, err := rtree.NewWriter(f, name, writeVars(cols, &crc))
 	if err != nil {
+		return fmt.Errorf("tree %q: %w", name, err)
+	}
+	if err := registerLeafStreamers(f, tw); err != nil {
 		return fmt.Errorf("tree %q: %w", name, err)
 	}
 	crc, _ = checksum(cols, nil)

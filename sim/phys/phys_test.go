@@ -3,6 +3,7 @@ package phys
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/golang/geo/r3"
@@ -58,5 +59,40 @@ func TestKinematics(t *testing.T) {
 	}
 	if s, _ := Lookup(MuonMinus); s.Charge != -1 || s.Mass != MuonMass {
 		t.Errorf("mu- species = %+v", s)
+	}
+}
+
+func TestParsePDG(t *testing.T) {
+	seen := map[string]int{}
+	for _, pdg := range KnownPDG() {
+		sp, err := Lookup(pdg)
+		if err != nil {
+			t.Fatalf("KnownPDG lists %d, which Lookup does not know: %v", pdg, err)
+		}
+		name := PDGName(pdg)
+		if name != sp.Name {
+			t.Errorf("PDGName(%d) = %q, Lookup says %q", pdg, name, sp.Name)
+		}
+		if other, dup := seen[name]; dup {
+			t.Errorf("codes %d and %d share the name %q", other, pdg, name)
+		}
+		seen[name] = pdg
+		if got, err := ParsePDG(name); err != nil || got != pdg {
+			t.Errorf("ParsePDG(%q) = %d, %v; want %d", name, got, err, pdg)
+		}
+	}
+	// Independent spot checks against the PDG Monte Carlo numbering.
+	for name, want := range map[string]int{"e-": 11, "mu+": -13, "gamma": 22, "anti-nu_mu": -14, "p": 2212} {
+		if got, err := ParsePDG(name); err != nil || got != want {
+			t.Errorf("ParsePDG(%q) = %d, %v; want %d", name, got, err, want)
+		}
+	}
+	for _, bad := range []string{"", "electron", "E-", "mu"} {
+		if _, err := ParsePDG(bad); err == nil || !strings.Contains(err.Error(), "mu-") {
+			t.Errorf("ParsePDG(%q): error %v should list the known names", bad, err)
+		}
+	}
+	if got := PDGName(211); got != "PDG 211" {
+		t.Errorf("PDGName(211) = %q", got)
 	}
 }
