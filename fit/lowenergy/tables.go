@@ -7,9 +7,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -67,6 +69,16 @@ type Tables struct {
 	Energy []CalibrationPoint
 	// Meta holds free-form provenance (generator settings, event counts).
 	Meta map[string]string
+}
+
+// clone returns a deep copy of t.
+func (t *Tables) clone() *Tables {
+	c := *t
+	c.Residual = slices.Clone(t.Residual)
+	c.Direction = slices.Clone(t.Direction)
+	c.Energy = slices.Clone(t.Energy)
+	c.Meta = maps.Clone(t.Meta)
+	return &c
 }
 
 // EmbeddedTables returns the table set embedded in the package under name
