@@ -300,8 +300,8 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) ([]point, err
 			att = fmt.Sprintf("%.0f", su.attenuation/100)
 		}
 		misID := "-"
-		if e, ok := misIDOf(p); ok {
-			misID = fmt.Sprintf("%s (%d/%d)", est(e, 100), p.misID, p.identified)
+		if b, ok := misIDOf(p); ok {
+			misID = b.Percent()
 		}
 		fmt.Fprintf(stdout, "%-7s %6.3f %7d %8.2f %7s %8d %7d  %-13s %-13s %-14s %-14s %s\n",
 			su.sensor, p.reached, p.sensors, p.tts, att, p.triggered, p.fitted,
@@ -350,7 +350,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: o.pdg(), Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: o.pdg(), Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
@@ -464,31 +464,39 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	return nil
 }
 
-// misIDOf returns the mis-identified fraction of p, if it was measured.
-func misIDOf(p point) (resolution.Estimate, bool) {
+// misIDOf returns the mis-identified fraction of p, if it was measured:
+// the central Clopper-Pearson interval, or the one-sided limit when none
+// (or all) are mis-identified (resolution.Proportion).
+func misIDOf(p point) (resolution.Binomial, bool) {
 	if p.identified == 0 {
-		return resolution.Estimate{}, false
+		return resolution.Binomial{}, false
 	}
-	e, err := display.Fraction(p.misID, p.identified)
-	return e, err == nil
+	b, err := resolution.Proportion(p.misID, p.identified)
+	return b, err == nil
 }
 
-// quantity is one resolution column of the study plots.
+// quantity is one resolution column of the study plots: the point of a
+// measurement at x, if it was measured.
 type quantity struct {
-	label string
-	scale float64
-	get   func(point) (resolution.Estimate, bool)
+	title, label, caption string
+	point                 func(p point, x float64) (display.Point, bool)
 }
 
-func summaryOf(f func(resolution.Summary) resolution.Estimate) func(point) (resolution.Estimate, bool) {
-	return func(p point) (resolution.Estimate, bool) { return f(p.sum), p.fitted >= 5 }
+func summaryOf(scale float64, f func(resolution.Summary) resolution.Estimate) func(point, float64) (display.Point, bool) {
+	return func(p point, x float64) (display.Point, bool) {
+		e := f(p.sum)
+		return display.Point{X: x, Y: scale * e.Value, Err: scale * e.Err}, p.fitted >= 5
+	}
 }
 
 var quantities = []quantity{
-	{"vertex resolution, 68% (cm)", 1, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
-	{"direction resolution, 68% (deg)", 1, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
-	{"energy resolution (%)", 100, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
-	{"e/mu mis-identification, ring fit (%)", 100, misIDOf},
+	{"vertex resolution", "vertex 68% (cm)", "68% quantile of the distance to the true vertex", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
+	{"direction resolution", "direction 68% (deg)", "68% quantile of the angle to the true direction", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
+	{"energy resolution", "σ(ΔE/E) (%)", "σ of the Gaussian core of (E_fit - E_true)/E_true", summaryOf(100, func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
+	{"e/mu mis-identification, ring fit", "mis-identified (%)", "bars: 68.3% CL Clopper-Pearson, arrows: 90% CL limits", func(p point, x float64) (display.Point, bool) {
+		b, ok := misIDOf(p)
+		return display.PointOfProportion(x, b, 100), ok
+	}},
 }
 
 // studyRow is one row of plots: the three resolutions against x for each
@@ -501,19 +509,19 @@ func studyRow(title, xlabel string, groups []string, pts [][]point, x func(point
 		for g, name := range groups {
 			s := display.Series{Name: name}
 			for _, p := range pts[g] {
-				e, ok := q.get(p)
+				pt, ok := q.point(p, x(p))
 				if !ok {
 					continue
 				}
 				n++
-				s.Points = append(s.Points, display.Point{X: x(p), Y: q.scale * e.Value, Err: q.scale * e.Err})
+				s.Points = append(s.Points, pt)
 			}
 			series = append(series, s)
 		}
 		if n == 0 {
 			continue
 		}
-		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: title, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
+		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: q.title + ", " + title, Caption: q.caption, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
 		if err != nil {
 			return nil, err
 		}

@@ -132,7 +132,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 		}
 		for _, e := range o.energies {
 			g, err := gen.NewGun(gen.GunConfig{
-				Particles: []gen.GunParticle{{PDG: pdg, Energy: gen.FixedEnergy(e), Direction: gen.Isotropic()}},
+				Particles: []gen.GunParticle{{PDG: pdg, Ekin: gen.FixedEnergy(e), Direction: gen.Isotropic()}},
 				Vertex:    gen.InFiducial(cfg.Detector.Tank(), 100),
 			})
 			if err != nil {

@@ -94,7 +94,7 @@ func TestJSROOT(t *testing.T) {
 		if len(e.Hits) > 1 {
 			hits++
 		}
-		if e.Truth.Neutrino.PDG != 0 {
+		if e.Truth.Interaction.PDG != 0 {
 			nu++
 		}
 	}
@@ -111,7 +111,7 @@ func TestJSROOT(t *testing.T) {
 	var dr detectorRecord
 	var sr sensorRecord
 	var er eventRecord
-	trees := map[string][]column{runTree: rr.cols(), detectorTree: dr.cols(), sensorTree: sr.cols(), eventsTree: er.cols()}
+	trees := map[string][]column{runTree: rr.cols(FormatVersion), detectorTree: dr.cols(), sensorTree: sr.cols(), eventsTree: er.cols(FormatVersion)}
 	if got := slices.Sorted(maps.Keys(d.Trees)); !slices.Equal(got, slices.Sorted(maps.Keys(trees))) {
 		t.Fatalf("jsroot found trees %v", got)
 	}
