@@ -60,7 +60,6 @@ import (
 	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
-	simsetup "github.com/conelight/conelight/sim/setup"
 )
 
 type options struct {
@@ -377,7 +376,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	var low *lowenergy.Fitter
 	if o.fitter != "ring" {
 		c := s.Config()
-		if low, err = lowenergy.New(lowenergy.Config{Setup: simsetup.Setup{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner}}); err != nil {
+		if low, err = lowenergy.New(lowenergy.Config{Setup: c.Setup}); err != nil {
 			return point{}, err
 		}
 	}

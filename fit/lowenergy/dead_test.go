@@ -26,7 +26,7 @@ func TestDeadSensors(t *testing.T) {
 	for _, d := range dead {
 		isDead[d] = true
 	}
-	s := setupOf(cfg)
+	s := cfg.Setup
 	s.Dead = dead
 	withDead, err := lowenergy.New(lowenergy.Config{Setup: s})
 	if err != nil {

@@ -27,7 +27,7 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Setup: setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		log.Fatal(err)
 	}

@@ -203,7 +203,7 @@ func TestNewErrors(t *testing.T) {
 	badSensor := cfg.Sensor
 	badSensor.TTS = math.NaN()
 	badTables := &lowenergy.Tables{Name: "x", TankRadius: 1, TankHalfHeight: 1}
-	base := setupOf(cfg)
+	base := cfg.Setup
 	with := func(change func(*lowenergy.Config)) lowenergy.Config {
 		c := lowenergy.Config{Setup: base}
 		change(&c)
@@ -239,7 +239,7 @@ func TestDefaultWater(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s := setupOf(cfg)
+	s := cfg.Setup
 	s.Water = nil
 	fNil, err := lowenergy.New(lowenergy.Config{Setup: s})
 	if err != nil {
@@ -417,7 +417,7 @@ func TestTablesCopied(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	own, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), Tables: tb})
+	own, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: tb})
 	if err != nil {
 		t.Fatal(err)
 	}
