@@ -5,8 +5,9 @@
 // writes each sample to a ROOT event file and prints what the detector
 // saw: photoelectrons per MeV, hits, and where the light came from. Then
 // it reconstructs the events and prints the resolution table: electrons,
-// positrons and photons up to 100 MeV with the low-energy fitter (package
-// fit), the other samples with the single-ring fitter (fit/ring), which fits
+// positrons and photons up to the top of the low-energy fitter's
+// calibration (lowenergy.Fitter.EkinRange, 100 MeV for the built-in
+// tables) with that fitter (fit/lowenergy), the other samples with the single-ring fitter (fit/ring), which fits
 // both the electron and the muon hypothesis and so gives the identity; the
 // ring fit takes about half a second per event, so only the first -ringfit events
 // of each sample are ring-fitted. Samples neither fitter covers (muons
@@ -25,7 +26,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 	"os/signal"
@@ -34,6 +34,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"

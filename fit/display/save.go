@@ -2,7 +2,6 @@ package display
 
 import (
 	"fmt"
-	"github.com/conelight/conelight/geom/safefile"
 	"io"
 	"math"
 	"path/filepath"
@@ -13,6 +12,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 // PNGDPI is the resolution of PNG files: a figure of width w (vg.Length)

@@ -6,13 +6,16 @@ import (
 	"embed"
 	"errors"
 	"fmt"
-	"github.com/conelight/conelight/geom/safefile"
 	"io"
+	"maps"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
 	"unicode"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
@@ -66,6 +69,16 @@ type Tables struct {
 	Energy []CalibrationPoint
 	// Meta holds free-form provenance (generator settings, event counts).
 	Meta map[string]string
+}
+
+// clone returns a deep copy of t.
+func (t *Tables) clone() *Tables {
+	c := *t
+	c.Residual = slices.Clone(t.Residual)
+	c.Direction = slices.Clone(t.Direction)
+	c.Energy = slices.Clone(t.Energy)
+	c.Meta = maps.Clone(t.Meta)
+	return &c
 }
 
 // EmbeddedTables returns the table set embedded in the package under name

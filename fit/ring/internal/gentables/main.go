@@ -28,7 +28,6 @@ import (
 	"encoding/gob"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/geom/safefile"
 	"io"
 	"log"
 	"math"
@@ -39,6 +38,7 @@ import (
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/fit/ring/internal/profile"
+	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/sim/cherenkov"
 	"github.com/conelight/conelight/sim/em"
 	"github.com/conelight/conelight/sim/material"
