@@ -10,7 +10,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/internal/atomicfile"
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 // csvFormat is the value of the @format directive this package reads and writes.
@@ -173,12 +173,9 @@ func WriteSensorCSV(w io.Writer, d *Detector) error {
 	return nil
 }
 
-// SaveSensorCSV writes d to the file at path atomically (atomicfile.Write):
-// a reader never sees a partial file, and on error path is left as it was.
+// SaveSensorCSV writes d to the file at path atomically: it writes a
+// temporary file in the same directory and renames it over path, so a reader
+// never sees a partial file.
 func SaveSensorCSV(path string, d *Detector) error {
-	err := atomicfile.Write(path, 0o644, func(f *os.File) error { return WriteSensorCSV(f, d) })
-	if err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	return nil
+	return safefile.Write(path, func(w io.Writer) error { return WriteSensorCSV(w, d) })
 }

@@ -82,9 +82,6 @@ func lightYield(w io.Writer, s setup.Setup, yo yieldOptions) error {
 	}
 	fmt.Fprintf(w, "  light yield: %.2f ± %.2f photoelectrons per MeV (%d electrons of %g MeV at the centre, isotropic, no dark noise: %.1f ± %.1f pe each, spread %.1f pe); %d/%d trigger\n",
 		y.perMeV, y.perMeVErr, yo.Events, yo.Ekin, y.mean, y.meanErr, y.spread, y.triggered, yo.Events)
-	if len(s.Dead) > 0 {
-		fmt.Fprintf(w, "    note: the simulator configuration does not take dead sensors yet; the yield counts all %d sensors\n", s.Detector.NumSensors())
-	}
 	return nil
 }
 

@@ -24,6 +24,7 @@ import (
 	"io"
 	"os"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
@@ -33,6 +34,15 @@ import (
 // Wagner and Pruss, J. Phys. Chem. Ref. Data 31 (2002) 387; from memory).
 const waterDensity = 0.9982
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "tankreport",
+	Does:    "With -detector: checks a detector description and prints what follows from it (sensors, coverage, water mass, light yield of a reference electron, dark noise, which low-energy fitter tables suit it). Without: prints the geometry and coverage of the demo or large tank for each preset sensor class.",
+	Reads:   "the description file given by -detector, if any (and the sensor CSV it names)",
+	Writes:  "the report on standard output; optionally the layout as a sensor CSV file (-csv)",
+	Example: "go run ./examples/tankreport -detector testdata/setup/example.toml",
+}
+
 func main() {
 	tankName := flag.String("tank", "demo", "tank: demo or large")
 	coverage := flag.Float64("coverage", 0, "photocathode coverage to report (0: 0.2, 0.3 and 0.4)")
@@ -41,11 +51,7 @@ func main() {
 	events := flag.Int("events", 200, "with -detector: reference electrons simulated for the light yield (0: skip)")
 	ekin := flag.Float64("energy", 10, "with -detector: kinetic energy of the reference electron, MeV")
 	seed := flag.Uint64("seed", 1, "with -detector: seed of the reference-electron run")
-	flag.Parse()
-	if flag.NArg() > 0 {
-		fmt.Fprintf(os.Stderr, "tankreport: unexpected argument %q (flags only; see -h)\n", flag.Arg(0))
-		os.Exit(2)
-	}
+	cli.Parse(usage)
 	var err error
 	if *spec != "" {
 		err = report(os.Stdout, *spec, yieldOptions{Events: *events, Ekin: *ekin, Seed: *seed})

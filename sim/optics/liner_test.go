@@ -7,6 +7,8 @@ import (
 	"testing"
 
 	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 func TestSpecularReflect(t *testing.T) {
@@ -50,7 +52,7 @@ func TestLambertianReflectKS(t *testing.T) {
 		cs[i] = v.Dot(n)
 		sum = sum.Add(v.Sub(n.Mul(cs[i])))
 	}
-	if d, crit := ksStatistic(cs, func(c float64) float64 { return c * c }), ksCritical(N, ksAlpha); d > crit {
+	if d, crit := resolution.KSStatistic(cs, func(c float64) float64 { return c * c }), resolution.KSCritical(N, ksAlpha); d > crit {
 		t.Errorf("Lambertian cos: KS D = %g > %g", d, crit)
 	}
 	if m := sum.Mul(1.0 / N).Norm(); m > 5*0.5/math.Sqrt(N)*math.Sqrt(3) {

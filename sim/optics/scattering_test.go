@@ -6,6 +6,8 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 const ksAlpha = 1e-4
@@ -80,7 +82,7 @@ func TestScatterSamplersKS(t *testing.T) {
 		for i := range x {
 			x[i] = draw(rng)
 		}
-		if d, crit := ksStatistic(x, cdf), ksCritical(n, ksAlpha); d > crit {
+		if d, crit := resolution.KSStatistic(x, cdf), resolution.KSCritical(n, ksAlpha); d > crit {
 			t.Errorf("%s: KS D = %g > %g (alpha %g)", name, d, crit, ksAlpha)
 		}
 	}

@@ -7,14 +7,13 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"reflect"
 	"strconv"
 	"strings"
 
 	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/internal/atomicfile"
+	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/optics"
 )
@@ -35,7 +34,7 @@ func Encode(w io.Writer, s Setup) error {
 	return encode(w, s, "")
 }
 
-// Save writes s to path atomically (atomicfile.Write) as Encode does. A
+// Save writes s to path atomically (geom/safefile) as Encode does. A
 // layout that is not a coverage layout is written, also atomically, to
 // the sensor CSV path+".sensors.csv" beside it, which the description
 // names relative to itself.
@@ -55,7 +54,7 @@ func Save(path string, s Setup) error {
 			return fmt.Errorf("setup: %w", err)
 		}
 	}
-	if err := atomicfile.Write(path, 0o644, func(f *os.File) error { _, err := f.Write(buf.Bytes()); return err }); err != nil {
+	if err := safefile.Write(path, func(w io.Writer) error { _, err := w.Write(buf.Bytes()); return err }); err != nil {
 		return fmt.Errorf("setup: %w", err)
 	}
 	return nil

@@ -49,12 +49,5 @@ func Load(spec string) (setup.Setup, error) {
 // given run seed and the simulator's defaults for everything else. It is
 // the one place the examples turn a description into a sim.Config.
 func SimConfig(s setup.Setup, seed uint64) sim.Config {
-	var c sim.Config
-	c.Detector = s.Detector
-	c.Sensor = s.Sensor
-	c.Water = s.Water
-	c.Liner = s.Liner
-	c.Trigger = s.Trigger
-	c.Seed = seed
-	return c
+	return sim.Config{Setup: s, Seed: seed}
 }
