@@ -1,8 +1,9 @@
 // Package detflag gives every example program the same -detector flag:
 // the detector a program simulates or fits is a description file
-// (sim/setup format, e.g. testdata/setup/example.toml) or the name of a
+// (sim/setup format, e.g. testdata/setup/example.toml), the name of a
 // built-in description ("demo", "large"), read by the one parser of
-// sim/setup.
+// sim/setup, or an event file (.root) whose detector, sensor and run trees
+// give the detector of the production that wrote it.
 package detflag
 
 import (
@@ -19,7 +20,7 @@ import (
 )
 
 // Usage is the help text of the -detector flag.
-const Usage = "detector description: a description file (TOML, see testdata/setup/example.toml) or a built-in name (demo, large)"
+const Usage = "detector: a description file (TOML, see testdata/setup/example.toml), a built-in name (demo, large), or an event file (.root) whose production to reproduce"
 
 // Register adds -detector to fs with the default value def (a built-in
 // name or a file) and returns the flag's value, for Load.
@@ -28,13 +29,17 @@ func Register(fs *flag.FlagSet, def string) *string {
 }
 
 // Load returns the detector that a -detector value names: the file at
-// spec if there is one, otherwise the built-in description of that name.
+// spec if there is one (an event file if its name ends in .root, else a
+// description file), otherwise the built-in description of that name.
 // The error names the value and, when it is neither, the built-in names.
 func Load(spec string) (setup.Setup, error) {
 	if spec == "" {
 		return setup.Setup{}, fmt.Errorf("-detector is empty: give a description file or one of %s", strings.Join(setup.BuiltinNames(), ", "))
 	}
 	if _, err := os.Stat(spec); err == nil {
+		if isEventFile(spec) {
+			return fromEventFile(spec)
+		}
 		return setup.Load(spec)
 	} else if !errors.Is(err, fs.ErrNotExist) {
 		return setup.Setup{}, fmt.Errorf("-detector %s: %w", spec, err)
