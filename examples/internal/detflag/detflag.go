@@ -28,13 +28,17 @@ func Register(fs *flag.FlagSet, def string) *string {
 	return fs.String("detector", def, Usage)
 }
 
+// Default is the built-in description an empty -detector value means.
+const Default = "demo"
+
 // Load returns the detector that a -detector value names: the file at
 // spec if there is one (an event file if its name ends in .root, else a
-// description file), otherwise the built-in description of that name.
+// description file), otherwise the built-in description of that name;
+// the empty value means Default.
 // The error names the value and, when it is neither, the built-in names.
 func Load(spec string) (setup.Setup, error) {
 	if spec == "" {
-		return setup.Setup{}, fmt.Errorf("-detector is empty: give a description file or one of %s", strings.Join(setup.BuiltinNames(), ", "))
+		spec = Default
 	}
 	if _, err := os.Stat(spec); err == nil {
 		if isEventFile(spec) {
@@ -48,6 +52,16 @@ func Load(spec string) (setup.Setup, error) {
 		return setup.Builtin(spec)
 	}
 	return setup.Setup{}, fmt.Errorf("-detector %q: no such file, and not a built-in description (%s)", spec, strings.Join(setup.BuiltinNames(), ", "))
+}
+
+// Config returns the simulator configuration of the detector spec names
+// (see Load) with the given run seed.
+func Config(spec string, seed uint64) (sim.Config, error) {
+	s, err := Load(spec)
+	if err != nil {
+		return sim.Config{}, err
+	}
+	return SimConfig(s, seed), nil
 }
 
 // SimConfig returns the simulator configuration of detector s with the

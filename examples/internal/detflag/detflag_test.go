@@ -29,7 +29,10 @@ func TestLoad(t *testing.T) {
 	if s, err := Load(example); err != nil || s.Name != "example pool" {
 		t.Errorf("example file: %q, %v", s.Name, err)
 	}
-	for _, bad := range []string{"", "nowhere.toml", "huge"} {
+	if s, err := Load(""); err != nil || s.Name != Default {
+		t.Errorf("empty value: %q, %v; want the %s tank", s.Name, err, Default)
+	}
+	for _, bad := range []string{"nowhere.toml", "huge"} {
 		if _, err := Load(bad); err == nil || !strings.Contains(err.Error(), "large") {
 			t.Errorf("Load(%q) error %v, want one naming the built-in descriptions", bad, err)
 		}
