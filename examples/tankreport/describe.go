@@ -46,6 +46,9 @@ func describe(w io.Writer, spec string, s setup.Setup, yo yieldOptions) error {
 	live := d.NumSensors() - len(s.Dead)
 	fmt.Fprintf(w, "  sensors: %d of %q (cathode %g cm): barrel %d, top %d, bottom %d; %d dead, %d live\n",
 		d.NumSensors(), s.Sensor.Name, d.CathodeDiameter(), parts[geom.Barrel], parts[geom.Top], parts[geom.Bottom], len(s.Dead), live)
+	if detflag.IsEventFile(spec) {
+		fmt.Fprintf(w, "    note: event files do not record dead sensors; none are assumed\n")
+	}
 	fmt.Fprintf(w, "  coverage reached: %.4f (all sensors), %.4f (live sensors)\n",
 		d.Coverage(), d.Coverage()*float64(live)/float64(d.NumSensors()))
 

@@ -24,6 +24,7 @@ func FuzzParse(f *testing.F) {
 	f.Add([]byte(good))
 	f.Add([]byte(strings.Replace(good, "coverage = 0.3", "coverage = 0.9", 1)))
 	f.Add([]byte("[tank]\nvessel_radius_cm = 1\nvessel_height_cm = 1\n[sensor]\npreset = \"Small\"\n[layout]\ncoverage = 0.01\n"))
+	f.Add([]byte(strings.Replace(good, "coverage = 0.3", "sensor_csv = \"x.csv\"", 1)))
 	f.Add([]byte("a = { b = 1 }\n[[c]]\n'''x\ny = 1'''"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		if len(data) > 1<<14 {

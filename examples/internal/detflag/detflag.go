@@ -41,7 +41,7 @@ func Load(spec string) (setup.Setup, error) {
 		spec = Default
 	}
 	if _, err := os.Stat(spec); err == nil {
-		if isEventFile(spec) {
+		if IsEventFile(spec) {
 			return fromEventFile(spec)
 		}
 		return setup.Load(spec)

@@ -12,8 +12,10 @@ import (
 	"github.com/conelight/conelight/sim/setup"
 )
 
-// isEventFile reports whether a -detector value names an event file.
-func isEventFile(spec string) bool { return strings.EqualFold(filepath.Ext(spec), ".root") }
+// IsEventFile reports whether a -detector value names an event file, whose
+// detector Load rebuilds without dead sensors (event files do not record
+// them).
+func IsEventFile(spec string) bool { return strings.EqualFold(filepath.Ext(spec), ".root") }
 
 // fromEventFile rebuilds the detector of a production from its event
 // file: the detector and sensor trees give the sensors and their model,
