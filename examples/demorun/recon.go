@@ -107,6 +107,10 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	if err != nil {
 		return err
 	}
+	if len(files) == 0 {
+		fmt.Fprintln(stdout, "\nno figures: no sample was reconstructed")
+		return nil
+	}
 	fmt.Fprintf(stdout, "\nfigures: %s\n", strings.Join(files, " "))
 	return nil
 }
