@@ -199,5 +199,10 @@ func fitterTables(w io.Writer, s setup.Setup) {
 			fmt.Fprintf(w, "    %-8s does not suit: %s\n", name, strings.Join(why, "; "))
 		}
 	}
+	if f, err := lowenergy.New(lowenergy.Config{Setup: s}); err != nil {
+		fmt.Fprintf(w, "    the fitter cannot be built for this detector: %v\n", err)
+	} else {
+		fmt.Fprintf(w, "    without tables of its own the fitter takes %q, the set closest in tank size\n", f.Tables().Name)
+	}
 	fmt.Fprintf(w, "  ring fitter (fit/ring): its emission profiles are per particle in water, not per tank; it takes any description\n")
 }

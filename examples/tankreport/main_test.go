@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/gonum/stat"
+
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/sim/setup"
 )
@@ -99,5 +101,41 @@ func TestYieldScalesWithEfficiency(t *testing.T) {
 	t.Logf("full %.2f ± %.2f, half %.2f ± %.2f pe/MeV, z = %.2f", full.perMeV, full.perMeVErr, half.perMeV, half.perMeVErr, z)
 	if math.Abs(z) > 4 {
 		t.Errorf("half efficiency gives %.2f ± %.2f pe/MeV, want half of %.2f ± %.2f (z = %.1f)", half.perMeV, half.perMeVErr, full.perMeV, full.perMeVErr, z)
+	}
+}
+
+// Pull test of the light yield's standard error: independent runs scatter
+// about their common mean by their stated errors. With the error
+// estimated from n events the pulls have a t-like spread, variance
+// (n-1)/(n-3); the standard deviation of K pulls is known to about
+// 1/sqrt(2K), and the test allows 4 of that.
+func TestYieldErrorPull(t *testing.T) {
+	if testing.Short() {
+		t.Skip("simulates 40 x 20 electrons")
+	}
+	s, err := setup.Demo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	const runs, n = 40, 20
+	ys := make([]yield, runs)
+	var grand float64
+	for k := range ys {
+		if ys[k], err = simulateYield(s, yieldOptions{Events: n, Ekin: 10, Seed: uint64(100 + k)}); err != nil {
+			t.Fatal(err)
+		}
+		grand += ys[k].perMeV / runs
+	}
+	pulls := make([]float64, runs)
+	for k, y := range ys {
+		// The grand mean shares 1/runs of each run: scale that out.
+		pulls[k] = (y.perMeV - grand) / (y.perMeVErr * math.Sqrt(1-1.0/runs))
+	}
+	_, sd := stat.MeanStdDev(pulls, nil)
+	want := math.Sqrt(float64(n-1) / float64(n-3))
+	tol := 4 * want / math.Sqrt(2*runs)
+	t.Logf("pull sd %.3f, expected %.3f ± %.3f (%d runs of %d electrons)", sd, want, want/math.Sqrt(2*runs), runs, n)
+	if math.Abs(sd-want) > tol {
+		t.Errorf("pull sd %.3f, want %.3f within %.3f", sd, want, tol)
 	}
 }
