@@ -3,6 +3,7 @@ package setup
 import (
 	"bytes"
 	"errors"
+	"flag"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -78,6 +79,8 @@ func TestBuiltinTanksUnchanged(t *testing.T) {
 	}
 }
 
+var update = flag.Bool("update", false, "rewrite the built-in description files in their canonical form (after a change of Encode's comments)")
+
 // The embedded files are in canonical form: Encode writes them back byte
 // for byte, so they round-trip exactly.
 func TestBuiltinFilesCanonical(t *testing.T) {
@@ -91,8 +94,15 @@ func TestBuiltinFilesCanonical(t *testing.T) {
 			t.Fatal(err)
 		}
 		want, _ := builtin.ReadFile("builtin/" + name + ".toml")
+		if *update && !bytes.Equal(buf.Bytes(), want) {
+			if err := os.WriteFile(filepath.Join("builtin", name+".toml"), buf.Bytes(), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			t.Logf("rewrote builtin/%s.toml", name)
+			continue
+		}
 		if !bytes.Equal(buf.Bytes(), want) {
-			t.Errorf("%s: Encode differs from the embedded file:\n%s", name, buf.Bytes())
+			t.Errorf("%s: Encode differs from the embedded file (a deliberate change of Encode: go test ./sim/setup -run TestBuiltinFilesCanonical -update):\n%s", name, buf.Bytes())
 		}
 	}
 	if _, err := Builtin("nope"); err == nil || !strings.Contains(err.Error(), "demo") {
