@@ -261,10 +261,10 @@ func (r interval) String() string {
 func fmtFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // Common ranges.
-var inf = math.Inf(1)
-
-func positive(unit string) interval    { return interval{lo: 0, hi: inf, loOpen: true, unit: unit} }
-func nonNegative(unit string) interval { return interval{lo: 0, hi: inf, unit: unit} }
+func positive(unit string) interval {
+	return interval{lo: 0, hi: math.Inf(1), loOpen: true, unit: unit}
+}
+func nonNegative(unit string) interval { return interval{lo: 0, hi: math.Inf(1), unit: unit} }
 func fraction() interval               { return interval{lo: 0, hi: 1} }
 
 // num returns *v checked against r, or def if v is nil (a default is
@@ -416,7 +416,7 @@ func (p *parser) sensor(r *rawSensor) (pmt.Model, bool) {
 		}
 	case r.QEWavelength != nil || r.QEFraction != nil:
 		if c, ok := p.curve("sensor.qe_wavelength_nm", r.QEWavelength, "sensor.qe_fraction", r.QEFraction,
-			interval{lo: 0, hi: inf, loOpen: true, unit: "nm"}); ok {
+			positive("nm")); ok {
 			m.QE = c
 		}
 	}
@@ -548,7 +548,7 @@ func (p *parser) water(r *rawWater) *optics.Water {
 	c.RayleighScale = p.num("water.rayleigh_scale", r.RayleighScale, c.RayleighScale, nonNegative(""))
 	c.MieLength = p.num("water.mie_length_cm", r.MieLength, c.MieLength, nonNegative("cm"))
 	c.MieWavelength = p.num("water.mie_wavelength_nm", r.MieWavelength, c.MieWavelength, positive("nm"))
-	c.MieExponent = p.num("water.mie_exponent", r.MieExponent, c.MieExponent, interval{lo: -inf, hi: inf, loOpen: true, hiOpen: true})
+	c.MieExponent = p.num("water.mie_exponent", r.MieExponent, c.MieExponent, interval{lo: math.Inf(-1), hi: math.Inf(1), loOpen: true, hiOpen: true})
 	c.MieG = p.num("water.mie_g", r.MieG, c.MieG, interval{lo: -1, hi: 1, loOpen: true, hiOpen: true})
 	c.AttenuationLength = p.num("water.attenuation_length_cm", r.AttenuationLength, c.AttenuationLength, nonNegative("cm"))
 	c.AttenuationWavelength = p.num("water.attenuation_wavelength_nm", r.AttenuationWavelength, c.AttenuationWavelength, band)
