@@ -136,7 +136,13 @@ func tomlError(path string, err error) error {
 	// Type errors come as text: toml: line N (last key "k"): message.
 	if m := typeError.FindStringSubmatch(err.Error()); m != nil {
 		line, _ := strconv.Atoi(m[1])
-		return &Error{File: path, Line: line, Key: m[2], Msg: m[3]}
+		e := &Error{File: path, Line: line, Key: m[2], Msg: m[3]}
+		for _, d := range schema() {
+			if d.key == e.Key {
+				e.Msg += "; the key is the " + d.doc
+			}
+		}
+		return e
 	}
 	return fmt.Errorf("setup: %s: %w", path, err)
 }

@@ -416,7 +416,7 @@ func TestBadFiles(t *testing.T) {
 		{"negative", "tts_sigma_ns = 1.1", "tts_sigma_ns = -1", "sensor.tts_sigma_ns", 9, []string{"[0, inf) ns"}},
 		{"not a number", "temperature_c = 15", "temperature_c = 1e999", "water.temperature_c", 14, nil},
 		{"nan", "temperature_c = 15", "temperature_c = nan", "water.temperature_c", 14, []string{"[0, 100] C"}},
-		{"wrong type", "temperature_c = 15", `temperature_c = "15 C"`, "water.temperature_c", 14, []string{"string"}},
+		{"wrong type", "temperature_c = 15", `temperature_c = "15 C"`, "water.temperature_c", 14, []string{"string", "the key is the water temperature, C, in [0, 100]"}},
 		{"layout does not fit the tank", "coverage = 0.3", "coverage = 0.9", "layout.coverage", 11, []string{"(0, 0.7"}},
 		{"tank too large for the sensor size", "vessel_radius_cm = 560", "vessel_radius_cm = 56000", "sensor.cathode_diameter_cm", 7, []string{"at least 1"}},
 		{"sensor does not fit the tank", "tts_sigma_ns = 1.1", "cathode_diameter_cm = 2000", "sensor.cathode_diameter_cm", 9, []string{"does not fit"}},
