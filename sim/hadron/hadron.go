@@ -185,6 +185,9 @@ func (p *Physics) TrackPion(part phys.Particle, vol phys.Volume, rng *rand.Rand,
 		out = pionDecay(phys.OnShell(phys.PionMass, h.EndEkin, h.EndDir), negative, rng, out)
 	case phys.Interacted:
 		out = p.pionInteraction(phys.OnShell(phys.PionMass, h.EndEkin, h.EndDir), negative, &tr, rng, out)
+		if tr.Channel == Absorption {
+			tr.Fate = phys.Absorbed
+		}
 	case phys.Stopped:
 		if negative {
 			// Atomic capture and cascade take picoseconds; the pion is
@@ -372,18 +375,7 @@ func (p *Physics) NucleonInteraction(n phys.FourMomentum, pdg int, tr *Truth, rn
 		return append(dst, product{pdg, a}, product{phys.ProtonCode, b})
 	}
 	tr.Channel, tr.Target = QuasiElastic, 8
-	target := phys.ProtonCode
-	if rng.Float64() < 0.5 {
-		target = phys.NeutronCode
-	}
-	out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst)
-	if !ok {
-		return append(dst, product{pdg, n})
-	}
-	if g, ok := deexcitation(target, rng); ok {
-		out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-	}
-	return out
+	return KnockOutOxygen(n, pdg, rng, dst)
 }
 
 // Products is the exported form of an interaction product for packages
@@ -401,4 +393,30 @@ func (p product) Momentum() phys.FourMomentum { return p.p }
 // reported.
 func Emit(prods []Product, pos r3.Vector, t float64, parent int, sink phys.Sink) int {
 	return emit(prods, pos, t, parent, sink)
+}
+
+// ElasticOnProton scatters a nucleon of four-momentum n and mass m off a
+// free proton at rest, isotropically in the centre of mass (relativistic
+// two-body kinematics), and returns both outgoing four-momenta.
+func ElasticOnProton(n phys.FourMomentum, m float64, rng *rand.Rand) (a, b phys.FourMomentum, ok bool) {
+	return twoBody(n.Add(phys.FourMomentum{E: phys.ProtonMass}), m, phys.ProtonMass, n.P.Normalize(), uniformCos, rng)
+}
+
+// KnockOutOxygen returns the products of a nucleon (code pdg,
+// four-momentum n) knocking a proton or neutron (equal chances) out of
+// 16O, with the de-excitation gamma of the hole (see NucleonInteraction).
+func KnockOutOxygen(n phys.FourMomentum, pdg int, rng *rand.Rand, dst []Product) []Product {
+	m := nucleonMass(pdg)
+	target := phys.ProtonCode
+	if rng.Float64() < 0.5 {
+		target = phys.NeutronCode
+	}
+	out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst)
+	if !ok {
+		return append(dst, product{pdg, n})
+	}
+	if g, ok := deexcitation(target, rng); ok {
+		out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
+	}
+	return out
 }

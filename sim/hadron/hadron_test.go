@@ -190,8 +190,11 @@ func TestPionInteractionLengthAndChannels(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if tr.Fate != phys.Interacted {
+			if tr.Fate != phys.Interacted && tr.Fate != phys.Absorbed {
 				continue
+			}
+			if (tr.Fate == phys.Absorbed) != (tr.Channel == Absorption) {
+				t.Fatalf("fate %v for channel %v", tr.Fate, tr.Channel)
 			}
 			interacted++
 			if tr.Target == 8 {
