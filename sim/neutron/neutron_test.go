@@ -22,8 +22,8 @@ type recordSink struct {
 	deposited float64
 }
 
-func (r *recordSink) Segment(phys.Segment)                   {}
-func (r *recordSink) Secondary(p phys.Particle)              { r.secs = append(r.secs, p) }
+func (r *recordSink) Segment(phys.Segment)                     {}
+func (r *recordSink) Secondary(p phys.Particle)                { r.secs = append(r.secs, p) }
 func (r *recordSink) Deposit(_ r3.Vector, _, e float64, _ int) { r.deposited += e }
 
 func newPhysics(t testing.TB, cfg Config) *Physics {
