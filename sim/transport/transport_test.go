@@ -94,8 +94,8 @@ func TestTrackBookkeeping(t *testing.T) {
 	}
 	// The 300 MeV mu+ stops in the tank and decays (PDG: mu+ always
 	// decays); its positron is among its descendants.
-	if out[1].MuonFate != phys.StoppedDecayed || out[1].Decay.PDG != phys.Positron {
-		t.Errorf("mu+ fate %v, decay %+v", out[1].MuonFate, out[1].Decay)
+	if out[1].Fate != phys.StoppedDecayed || out[1].Decay.PDG != phys.Positron {
+		t.Errorf("mu+ fate %v, decay %+v", out[1].Fate, out[1].Decay)
 	}
 	if out[0].TrackLength <= 0 || out[0].Range <= 0 || out[0].Range > out[0].TrackLength+1e-9 {
 		t.Errorf("electron track length %g, range %g", out[0].TrackLength, out[0].Range)

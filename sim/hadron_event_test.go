@@ -1,0 +1,58 @@
+package sim
+
+import (
+	"testing"
+
+	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/sim/phys"
+)
+
+// TestHadronEvents: the simulator follows pions, protons, neutrons and
+// neutral pions given as primaries. A 2 GeV proton (above the Cherenkov
+// threshold of 1.07 GeV/c) and a 500 MeV pi+ make light; a 100 MeV
+// proton (below threshold) makes none of its own; a 300 MeV pi0 decays
+// to photons that shower; a 2 MeV neutron is captured (its 2.2 MeV gamma
+// or a knock-out) and has secondaries; a neutrino primary is not
+// followed and says so.
+func TestHadronEvents(t *testing.T) {
+	s := demoSim(t, 1, func(c *Config) { c.KeepUntriggered = true; c.NoDarkNoise = true })
+	up := r3.Vector{Z: 1}
+	for i, c := range []struct {
+		pdg        int
+		ekin       float64
+		light      bool
+		fates      []phys.Fate
+		secondarys bool
+	}{
+		{phys.ProtonCode, 2000, true, []phys.Fate{phys.Exited, phys.Stopped, phys.Interacted}, false},
+		{phys.ProtonCode, 100, false, []phys.Fate{phys.Stopped, phys.Interacted}, false},
+		{phys.PionPlusCode, 500, true, []phys.Fate{phys.Exited, phys.Interacted, phys.Absorbed, phys.DecayedInFlight, phys.StoppedDecayed}, true},
+		{phys.PionMinusCode, 300, true, []phys.Fate{phys.Exited, phys.Interacted, phys.Absorbed, phys.DecayedInFlight, phys.StoppedCaptured}, true},
+		{phys.NeutralPionCode, 300, true, []phys.Fate{phys.DecayedInFlight}, true},
+		{phys.NeutronCode, 2, false, []phys.Fate{phys.Captured, phys.Exited}, true},
+		{phys.MuonNeu, 500, false, []phys.Fate{phys.NotFollowed}, false},
+	} {
+		ev, err := s.Event(uint64(i+1), []phys.Particle{{PDG: c.pdg, Dir: up, Ekin: c.ekin}})
+		if err != nil {
+			t.Fatalf("PDG %d: %v", c.pdg, err)
+		}
+		tr := ev.Truth.Tracks[0]
+		ok := false
+		for _, f := range c.fates {
+			ok = ok || tr.Fate == f
+		}
+		if !ok {
+			t.Errorf("PDG %d, %g MeV: fate %v, want one of %v", c.pdg, c.ekin, tr.Fate, c.fates)
+		}
+		if got := tr.VisiblePhotons > 0; got != c.light && c.light {
+			t.Errorf("PDG %d, %g MeV: %g visible photons", c.pdg, c.ekin, tr.VisiblePhotons)
+		}
+		if c.pdg == phys.ProtonCode && c.ekin == 100 && tr.Secondaries == 0 && tr.VisiblePhotons > 0 {
+			t.Errorf("100 MeV proton with no secondaries made %g photons", tr.VisiblePhotons)
+		}
+		if c.secondarys && tr.Secondaries == 0 {
+			t.Errorf("PDG %d, %g MeV: no secondaries", c.pdg, c.ekin)
+		}
+	}
+}
