@@ -56,3 +56,40 @@ func TestHadronEvents(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkHadronEvent is the cost of whole events with hadrons on one
+// core in the large tank, beside a 1 GeV muon (the floor of
+// BenchmarkEvent): a charged-current single-pion-like final state of a
+// 1 GeV neutrino (mu- 500 MeV, pi+ 250 MeV, proton 200 MeV kinetic, from
+// one vertex at invented angles) and a 2 MeV neutron to its capture.
+func BenchmarkHadronEvent(b *testing.B) {
+	cfg := largeConfig(b)
+	cfg.Workers = 1
+	s, err := New(cfg)
+	if err != nil {
+		b.Fatal(err)
+	}
+	v := r3.Vector{X: -100}
+	for _, c := range []struct {
+		name  string
+		prims []phys.Particle
+	}{
+		{"mu-1GeV", []phys.Particle{{PDG: phys.MuonMinus, Pos: v, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: 1000}}},
+		{"cc1pi-1GeV", []phys.Particle{
+			{PDG: phys.MuonMinus, Pos: v, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: 500},
+			{PDG: phys.PionPlusCode, Pos: v, Dir: r3.Vector{X: 0.8, Y: 0.6}, Ekin: 250},
+			{PDG: phys.ProtonCode, Pos: v, Dir: r3.Vector{Y: -0.6, Z: 0.8}, Ekin: 200},
+		}},
+		{"n-2MeV", []phys.Particle{{PDG: phys.NeutronCode, Pos: v, Dir: r3.Vector{Z: 1}, Ekin: 2}}},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; i < b.N; i++ {
+				if _, err := s.Event(uint64(i), c.prims); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "events/s")
+		})
+	}
+}
