@@ -356,3 +356,43 @@ func TestPiZeroOpeningAngle(t *testing.T) {
 		t.Errorf("median opening angle %.5f rad, analytic %.5f (se %.5f)", med, want, se)
 	}
 }
+
+func TestPionCherenkovThreshold(t *testing.T) {
+	// Segments are reported only above beta = 1/n: for a pion at the
+	// configured index n = 1.33 the threshold momentum is
+	// m_pi/sqrt(n^2 - 1) = 159.2 MeV/c (the ~159 MeV/c of water). A pion
+	// started at 150 MeV/c makes no segment; one at 250 MeV/c makes
+	// segments that start above the threshold speed.
+	const n = 1.33
+	p := newPhysics(t, heavy.Config{ThresholdIndex: n, NoScattering: true})
+	thr := phys.PionMass / math.Sqrt(n*n-1)
+	if math.Abs(thr-159.2) > 0.1 {
+		t.Fatalf("threshold %g MeV/c", thr)
+	}
+	rng := newRNG(11, 12)
+	for _, c := range []struct {
+		mom   float64
+		light bool
+	}{{150, false}, {250, true}} {
+		var s segSink
+		_, err := p.TrackPion(along(phys.PionPlusCode, phys.KineticFromMomentum(c.mom, phys.PionMass)), ball{1e4}, rng, &s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if (len(s.segs) > 0) != c.light {
+			t.Errorf("%g MeV/c: %d segments", c.mom, len(s.segs))
+		}
+		for _, g := range s.segs {
+			if g.Track == 1 && g.Beta0 <= 1/n {
+				t.Errorf("segment starting at beta %g below 1/n", g.Beta0)
+			}
+		}
+	}
+}
+
+type segSink struct {
+	recordSink
+	segs []phys.Segment
+}
+
+func (s *segSink) Segment(g phys.Segment) { s.segs = append(s.segs, g) }
