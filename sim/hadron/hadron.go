@@ -26,18 +26,10 @@ type Physics struct {
 // New builds the tables for medium m (which must contain hydrogen and
 // oxygen, as water does) with the heavy-particle settings cfg.
 func New(m material.Medium, cfg heavy.Config) (*Physics, error) {
-	p := &Physics{}
-	for _, e := range m.Elements {
-		n := m.Density * e.MassFraction * phys.Avogadro / e.A
-		switch e.Z {
-		case 1:
-			p.nH += n
-		case 8:
-			p.nO += n
-		default:
-			return nil, fmt.Errorf("hadron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen have hadronic cross-sections", e.Symbol, e.Z)
-		}
+	if e, ok := m.OtherThan(1, 8); ok {
+		return nil, fmt.Errorf("hadron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen have hadronic cross-sections", e.Symbol, e.Z)
 	}
+	p := &Physics{nH: m.AtomDensity(1), nO: m.AtomDensity(8)}
 	if !(p.nH > 0 || p.nO > 0) {
 		return nil, errors.New("hadron: Medium.Elements holds neither hydrogen nor oxygen")
 	}
@@ -276,27 +268,19 @@ func (p *Physics) pionInteraction(pi phys.FourMomentum, negative bool, tr *Truth
 		if rng.Float64() < 0.1 {
 			target = unlike
 		}
-		out, ok := knockOut(pi, target, pdg, target, phys.PionMass, deltaCos, rng, dst)
-		if !ok {
-			tr.Channel = Elastic
-			return append(dst, product{pdg, coherentElastic(pi, rng)})
+		if out, ok := knockOut(pi, target, pdg, target, phys.PionMass, deltaCos, rng, dst); ok {
+			return out
 		}
-		if g, ok := deexcitation(target, rng); ok {
-			out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-		}
-		return out
+		tr.Channel = Elastic
+		return append(dst, product{pdg, coherentElastic(pi, rng)})
 	case u < (o[Elastic]+o[QuasiElastic]+o[ChargeExchange])*p.nO*millibarn:
 		tr.Channel = ChargeExchange
 		// pi+ n -> pi0 p, pi- p -> pi0 n.
-		out, ok := knockOut(pi, unlike, phys.NeutralPionCode, like, phys.PionZeroMass, deltaCos, rng, dst)
-		if !ok {
-			tr.Channel = Elastic
-			return append(dst, product{pdg, coherentElastic(pi, rng)})
+		if out, ok := knockOut(pi, unlike, phys.NeutralPionCode, like, phys.PionZeroMass, deltaCos, rng, dst); ok {
+			return out
 		}
-		if g, ok := deexcitation(unlike, rng); ok {
-			out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-		}
-		return out
+		tr.Channel = Elastic
+		return append(dst, product{pdg, coherentElastic(pi, rng)})
 	}
 	tr.Channel = Absorption
 	// pi+ (pn) -> p p, pi- (pn) -> n n.
@@ -411,12 +395,8 @@ func KnockOutOxygen(n phys.FourMomentum, pdg int, rng *rand.Rand, dst []Product)
 	if rng.Float64() < 0.5 {
 		target = phys.NeutronCode
 	}
-	out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst)
-	if !ok {
-		return append(dst, product{pdg, n})
+	if out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst); ok {
+		return out
 	}
-	if g, ok := deexcitation(target, rng); ok {
-		out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-	}
-	return out
+	return append(dst, product{pdg, n})
 }

@@ -9,6 +9,7 @@ import (
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/sim/hadron"
+	"github.com/conelight/conelight/sim/heavy"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -109,18 +110,11 @@ func New(m material.Medium, had *hadron.Physics, cfg Config) (*Physics, error) {
 	}
 	cfg = cfg.withDefaults()
 	p := &Physics{cfg: cfg, had: had, kT: boltzmann * (cfg.TemperatureC + 273.15)}
-	w := 1 - cfg.GdMassFraction
-	for _, e := range m.Elements {
-		n := m.Density * w * e.MassFraction * phys.Avogadro / e.A
-		switch e.Z {
-		case 1:
-			p.nH += n
-		case 8:
-			p.nO += n
-		default:
-			return nil, fmt.Errorf("neutron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen are modelled", e.Symbol, e.Z)
-		}
+	if e, ok := m.OtherThan(1, 8); ok {
+		return nil, fmt.Errorf("neutron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen are modelled", e.Symbol, e.Z)
 	}
+	w := 1 - cfg.GdMassFraction
+	p.nH, p.nO = w*m.AtomDensity(1), w*m.AtomDensity(8)
 	p.nGd = m.Density * cfg.GdMassFraction * phys.Avogadro / gdAtomicWeight
 	return p, nil
 }
@@ -240,7 +234,7 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 		if t+d/(beta*c) > tEnd {
 			d = (tEnd - t) * beta * c
 			if !vol.Contains(pos.Add(dir.Mul(d))) {
-				d = crossing(vol, pos, dir, d)
+				d = heavy.Crossing(vol, pos, dir, d)
 				tr.Fate = phys.Exited
 			} else {
 				tr.Fate = phys.NotFollowed
@@ -250,7 +244,7 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 			break
 		}
 		if !vol.Contains(pos.Add(dir.Mul(d))) {
-			d = crossing(vol, pos, dir, d)
+			d = heavy.Crossing(vol, pos, dir, d)
 			pos, t = pos.Add(dir.Mul(d)), t+d/(beta*c)
 			tr.TrackLength += d
 			tr.Fate = phys.Exited
@@ -409,21 +403,6 @@ func emitGamma(e float64, pos r3.Vector, t float64, parent int, rng *rand.Rand, 
 
 func isotropic(rng *rand.Rand) r3.Vector {
 	return phys.Deflect(r3.Vector{Z: 1}, 2*rng.Float64()-1, 2*math.Pi*rng.Float64())
-}
-
-// crossing returns the distance along u from pos (inside vol) where the
-// line leaves vol, knowing the point at s is outside (bisection).
-func crossing(vol phys.Volume, pos, u r3.Vector, s float64) float64 {
-	lo, hi := 0.0, s
-	for i := 0; i < 40; i++ {
-		mid := 0.5 * (lo + hi)
-		if vol.Contains(pos.Add(u.Mul(mid))) {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	return hi
 }
 
 func validate(part phys.Particle, vol phys.Volume, rng *rand.Rand, sink phys.Sink) error {

@@ -1,6 +1,10 @@
 package neutron
 
-import "math"
+import (
+	"math"
+
+	"github.com/conelight/conelight/sim/hadron"
+)
 
 // barn is 1 b in cm^2.
 const barn = 1e-24
@@ -59,7 +63,7 @@ func HydrogenElastic(e float64) float64 {
 		b := 0.4223 + 0.13*e
 		return 3*math.Pi/(1.206*e+a*a) + math.Pi/(1.206*e+b*b)
 	}
-	return interpLog([]float64{20, 50, 100, 200, 500}, []float64{HydrogenElastic(20), 0.17, 0.073, 0.043, 0.035}, e)
+	return hadron.InterpLog([]float64{20, 50, 100, 200, 500}, []float64{HydrogenElastic(20), 0.17, 0.073, 0.043, 0.035}, e)
 }
 
 // OxygenElastic returns the n-16O elastic cross-section (barn): 3.75 b
@@ -74,7 +78,7 @@ func OxygenElastic(e float64) float64 {
 	if e <= 0.3 {
 		return 3.75
 	}
-	return interpLog([]float64{0.3, 1, 3, 10, 20, 100, 1000}, []float64{3.75, 3.0, 1.5, 1.0, 1.0, 0.5, 0.3}, e)
+	return hadron.InterpLog([]float64{0.3, 1, 3, 10, 20, 100, 1000}, []float64{3.75, 3.0, 1.5, 1.0, 1.0, 0.5, 0.3}, e)
 }
 
 // OxygenInelastic returns the 16O(n, n' gamma 6.13 MeV) cross-section
@@ -86,21 +90,4 @@ func OxygenInelastic(e float64) float64 {
 		return 0
 	}
 	return 0.2
-}
-
-// interpLog interpolates linearly in ln E, clamped at the ends.
-func interpLog(es, vs []float64, e float64) float64 {
-	n := len(es)
-	switch {
-	case e <= es[0]:
-		return vs[0]
-	case e >= es[n-1]:
-		return vs[n-1]
-	}
-	i := 1
-	for es[i] < e {
-		i++
-	}
-	f := math.Log(e/es[i-1]) / math.Log(es[i]/es[i-1])
-	return vs[i-1] + f*(vs[i]-vs[i-1])
 }
