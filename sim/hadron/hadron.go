@@ -128,20 +128,15 @@ func fromHeavy(h heavy.Truth) Truth {
 }
 
 // emit reports the products as secondaries of track parent at pos, time
-// t; products with no kinetic energy are dropped (a nucleon left bound).
+// t, with the kinetic energy E - m from the particle table's mass;
+// products with no kinetic energy or momentum are dropped (a nucleon left
+// bound, a photon of zero energy).
 func emit(prods []product, pos r3.Vector, t float64, parent int, sink phys.Sink) int {
 	n := 0
 	for _, pr := range prods {
 		m := pr.p.Mass()
-		switch pr.pdg {
-		case phys.Gamma:
-			m = 0
-		case phys.ProtonCode, phys.NeutronCode:
-			m = nucleonMass(pr.pdg)
-		case phys.PionPlusCode, phys.PionMinusCode:
-			m = phys.PionMass
-		case phys.NeutralPionCode:
-			m = phys.PionZeroMass
+		if sp, err := phys.Lookup(pr.pdg); err == nil {
+			m = sp.Mass
 		}
 		ekin := pr.p.E - m
 		pn := pr.p.P.Norm()
