@@ -125,7 +125,7 @@ func TestReproducible(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	if !reflect.DeepEqual(decoded[0], decoded[1]) || runs[0] != runs[1] {
+	if !reflect.DeepEqual(decoded[0], decoded[1]) || !reflect.DeepEqual(runs[0], runs[1]) {
 		t.Error("the two files decode to different events or run descriptions")
 	}
 	for i, e := range decoded[0] {

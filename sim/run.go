@@ -108,22 +108,6 @@ func (o RunOptions) ShardRange() (first, n uint64, err error) {
 	return first, n, nil
 }
 
-// NeutrinoTruth returns the neutrino part of an event's truth from the
-// generator's information (the zero value for non-neutrino events).
-func NeutrinoTruth(info gen.Info) event.Neutrino {
-	if info.Neutrino == 0 {
-		return event.Neutrino{}
-	}
-	return event.Neutrino{
-		PDG:     info.Neutrino,
-		Energy:  info.NeutrinoEtot,
-		Dir:     info.NeutrinoDir,
-		Q2:      info.Q2,
-		Target:  info.Target,
-		Nucleon: info.FinalNucleon,
-	}
-}
-
 type result struct {
 	i     uint64
 	ev    *event.Event
@@ -197,7 +181,7 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 				} else if len(prims) == 0 {
 					r.empty = emptyReason(g, num, info)
 				} else if r.ev, r.err = w.simulate(num, rng, prims); r.err == nil {
-					r.ev.Truth.Neutrino = NeutrinoTruth(info)
+					r.ev.Truth.Interaction = InteractionTruth(g, info)
 				}
 				results <- r
 			}

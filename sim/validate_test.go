@@ -18,6 +18,7 @@ import (
 	"github.com/conelight/conelight/sim/muon"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/photon"
+	"github.com/conelight/conelight/sim/setup"
 	"github.com/conelight/conelight/sim/transport"
 )
 
@@ -111,7 +112,7 @@ func TestValidationAudit(t *testing.T) {
 	auditFloats(t, "geom.Tank", geom.DemoTank(), []string{"SensorOffset=0"}, func(tk geom.Tank) error { return tk.Validate() })
 	auditFloats(t, "pmt.Model", model, []string{"TTS=0", "DarkRate=0", "Threshold=0", "Saturation=0", "Width=0", "LowFraction=0", "LowMean=0"},
 		func(m pmt.Model) error { return m.Validate() })
-	auditFloats(t, "pmt.Trigger", DefaultTrigger(), []string{"PreTrigger=0", "PostTrigger=0"}, func(tr pmt.Trigger) error { return tr.Validate() })
+	auditFloats(t, "pmt.Trigger", setup.DefaultTrigger(), []string{"PreTrigger=0", "PostTrigger=0"}, func(tr pmt.Trigger) error { return tr.Validate() })
 	auditFloats(t, "optics.Liner", optics.DefaultLiner(), []string{"Reflectivity=0", "DiffuseFraction=0"}, func(l optics.Liner) error { return l.Validate() })
 	auditFloats(t, "optics.WaterConfig", optics.DefaultWaterConfig(),
 		[]string{"TemperatureC=0", "AbsorptionScale=0", "RayleighScale=0", "MieLength=0", "MieLength=+Inf", "MieG=0",

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/optics"
 )
@@ -31,58 +32,21 @@ type response struct {
 const accN = 200
 
 func newResponse(w *optics.Water, m *pmt.Model, bandLo, bandHi, maxR float64) (*response, error) {
-	wlo, whi := w.Band()
-	lo, hi := math.Max(bandLo, wlo), math.Min(bandHi, whi)
-	if !(lo < hi) {
-		return nil, fmt.Errorf("ring: water band %g-%g nm does not overlap the table band %g-%g nm", wlo, whi, bandLo, bandHi)
-	}
-	const dl = 1.0
-	var lams, wts, effs, latt []float64
-	var norm float64
-	// The Frank-Tamm spectrum at beta = 1 over the whole table band sets
-	// the normalization: the tables count photons of that band.
-	for l := bandLo + dl/2; l < bandHi; l += dl {
-		lw := math.Min(math.Max(l, wlo), whi)
-		n := w.Index(lw)
-		f := (1 - 1/(n*n)) / (l * l)
-		norm += f
-		if l < lo || l > hi {
-			continue
-		}
-		lams = append(lams, l)
-		wts = append(wts, f)
-		effs = append(effs, m.SpectralEfficiency(l))
-		latt = append(latt, 1/(1/w.AbsorptionLength(l)+1/w.ScatteringLength(l)))
+	// The tables count photons of their band; 1 nm bins.
+	bins := int(math.Round(bandHi - bandLo))
+	sp, err := fit.NewSpectrum(w, m, bandLo, bandHi, max(bins, 1))
+	if err != nil {
+		return nil, fmt.Errorf("ring: %w", err)
 	}
 	r := &response{attStep: 2}
-	var sw, sn, sg, sg2, sls, sla float64
-	for i, l := range lams {
-		we := wts[i] * effs[i] / norm
-		sw += we
-		sn += we * w.Index(l)
-		ig := 1 / w.GroupVelocity(l)
-		sg += we * ig
-		sg2 += we * ig * ig
-		sls += we / w.ScatteringLength(l)
-		sla += we / w.AbsorptionLength(l)
-	}
-	if !(sw > 0) {
-		return nil, fmt.Errorf("ring: sensor %q detects nothing in the band %g-%g nm", m.Name, lo, hi)
-	}
-	r.index = sn / sw
-	r.invGroup = sg / sw
-	r.invGroupSD = math.Sqrt(math.Max(sg2/sw-r.invGroup*r.invGroup, 0))
-	r.scatLength = sw / sls
-	r.absLength = sw / sla
+	r.index = sp.Mean(w.Index)
+	r.invGroup, r.invGroupSD = sp.MeanSD(func(l float64) float64 { return 1 / w.GroupVelocity(l) })
+	r.scatLength = sp.HarmonicMean(w.ScatteringLength)
+	r.absLength = sp.HarmonicMean(w.AbsorptionLength)
 	nAtt := int(maxR/r.attStep) + 2
 	r.att = make([]float64, nAtt)
 	for k := range r.att {
-		R := float64(k) * r.attStep
-		var s float64
-		for i := range lams {
-			s += wts[i] * effs[i] / norm * math.Exp(-R/latt[i])
-		}
-		r.att[k] = s
+		r.att[k] = sp.Survival(float64(k) * r.attStep)
 	}
 	r.acc = make([]float64, accN+1)
 	for k := range r.acc {

@@ -76,9 +76,9 @@
 // energies follow flux x cross-section (one bound over the whole range, the
 // energy redrawn with every proposal).
 //
-// QuasiElasticEnergy and QuasiElasticEnergyOf give the standard
-// reconstructed neutrino energy from the lepton's energy and angle; they
-// live in a file with no dependency beyond sim/phys, for the reconstruction.
+// The standard reconstructed neutrino energy from the lepton's energy and
+// angle is phys.QuasiElasticEnergy (and phys.QuasiElasticEnergyOf), in
+// sim/phys so that the reconstruction can use it without this package.
 //
 // # HepMC event files
 //

@@ -49,11 +49,14 @@ type FermiGas struct {
 	BindingEnergy float64 // E_b, MeV
 }
 
-// OxygenFermiGas returns k_F = 225 MeV/c and E_b = 27 MeV for 16O: values
-// commonly used for oxygen in neutrino work, close to the fits to
-// quasi-elastic electron scattering of Moniz et al., Phys. Rev. Lett. 26
-// (1971) 445 for neighbouring nuclei (from memory; common practice).
-func OxygenFermiGas() FermiGas { return FermiGas{FermiMomentum: 225, BindingEnergy: 27} }
+// OxygenFermiGas returns k_F = 225 MeV/c and E_b = 27 MeV
+// (phys.OxygenBindingEnergy) for 16O: values commonly used for oxygen in
+// neutrino work, close to the fits to quasi-elastic electron scattering of
+// Moniz et al., Phys. Rev. Lett. 26 (1971) 445 for neighbouring nuclei
+// (from memory; common practice).
+func OxygenFermiGas() FermiGas {
+	return FermiGas{FermiMomentum: 225, BindingEnergy: phys.OxygenBindingEnergy}
+}
 
 // QEConfig configures the charged-current quasi-elastic generator.
 type QEConfig struct {

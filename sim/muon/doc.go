@@ -2,7 +2,8 @@
 // condensed-history Monte Carlo and reports what the Cherenkov simulation
 // needs: straight segments while the muon is above threshold, delta-ray
 // electrons, energy deposits, and the decay electron or nuclear capture at
-// the end.
+// the end. The water is the medium of sim/material.Water (for energy loss
+// and scattering), not its optics (optics.Water).
 //
 // # Physics
 //
