@@ -44,10 +44,19 @@ func TestSimFile(t *testing.T) {
 		if ev.Number == 3 {
 			t.Error("the empty event was written")
 		}
+		// The NuHepMC truth of the file (testdata/gen/hepmc3/expected.json).
+		in := ev.Truth.Interaction
+		want := map[uint64][4]int{0: {14, 200, 101, 1000080160}, 1: {12, 400, 102, 1000080160}, 2: {-14, 201, 103, 2212}}[ev.Number]
+		if in.PDG != want[0] || in.Process != want[1] || in.SourceEvent != int64(want[2]) || in.Target != want[3] || !in.FromFile || in.Q2 <= 0 {
+			t.Errorf("event %d: interaction %+v, want PDG, process, number, target %v", ev.Number, in, want)
+		}
 		n++
 	}
 	if n != sum.written {
 		t.Errorf("file holds %d events, run wrote %d", n, sum.written)
+	}
+	if src := r.Run().Source; src.Read != 4 || src.Skipped != 1 || !strings.Contains(src.Reasons[0], "number 104 in the file): nothing to track") {
+		t.Errorf("run record Source %+v", src)
 	}
 }
 
