@@ -25,9 +25,9 @@ func TestSimFile(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// Four events: three with something to track, the neutral-current
+	// Five events: four with something to track, the neutral-current
 	// one (number 104) empty and listed.
-	if sum.done != 4 || sum.empty != 1 || sum.skippedBad != 0 ||
+	if sum.done != 5 || sum.empty != 1 || sum.skippedBad != 0 ||
 		!strings.Contains(log.String(), "empty event: sim: event 3 (") || !strings.Contains(log.String(), "number 104 in the file") {
 		t.Errorf("summary %+v, log %q", sum, log.String())
 	}
@@ -46,7 +46,7 @@ func TestSimFile(t *testing.T) {
 		}
 		// The NuHepMC truth of the file (testdata/gen/hepmc3/expected.json).
 		in := ev.Truth.Interaction
-		want := map[uint64][4]int{0: {14, 200, 101, 1000080160}, 1: {12, 400, 102, 1000080160}, 2: {-14, 201, 103, 2212}}[ev.Number]
+		want := map[uint64][4]int{0: {14, 200, 101, 1000080160}, 1: {12, 400, 102, 1000080160}, 2: {-14, 201, 103, 2212}, 4: {12, 700, 105, 0}}[ev.Number]
 		if in.PDG != want[0] || in.Process != want[1] || in.SourceEvent != int64(want[2]) || in.Target != want[3] || !in.FromFile || in.Q2 <= 0 {
 			t.Errorf("event %d: interaction %+v, want PDG, process, number, target %v", ev.Number, in, want)
 		}
@@ -55,7 +55,7 @@ func TestSimFile(t *testing.T) {
 	if n != sum.written {
 		t.Errorf("file holds %d events, run wrote %d", n, sum.written)
 	}
-	if src := r.Run().Source; src.Read != 4 || src.Skipped != 1 || !strings.Contains(src.Reasons[0], "number 104 in the file): nothing to track") {
+	if src := r.Run().Source; src.Read != 5 || src.Skipped != 1 || !strings.Contains(src.Reasons[0], "number 104 in the file): nothing to track") {
 		t.Errorf("run record Source %+v", src)
 	}
 }

@@ -94,7 +94,7 @@ func ExampleOpenHepMC() {
 	}
 	fmt.Printf("nucleon %d: Ekin %.1f MeV; %d particles not tracked\n", info.FinalNucleon.PDG, info.FinalNucleon.Ekin, info.Skipped)
 	// Output:
-	// HepMC3 file ../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3 (4 events)
+	// HepMC3 file ../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3 (5 events)
 	// event 101: process 200, weight 1.25, nu 14 of 800 MeV on 1000080160, Q2 81349 MeV^2
 	// primary 13: Ekin 452.2 MeV at (10.0, -5.0, 2.5) cm
 	// nucleon 2212: Ekin 39.2 MeV; 2 particles not tracked
