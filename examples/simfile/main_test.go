@@ -47,7 +47,8 @@ func TestSimFile(t *testing.T) {
 		// The NuHepMC truth of the file (testdata/gen/hepmc3/expected.json).
 		in := ev.Truth.Interaction
 		want := map[uint64][4]int{0: {14, 200, 101, 1000080160}, 1: {12, 400, 102, 1000080160}, 2: {-14, 201, 103, 2212}, 4: {12, 700, 105, 0}}[ev.Number]
-		if in.PDG != want[0] || in.Process != want[1] || in.SourceEvent != int64(want[2]) || in.Target != want[3] || !in.FromFile || in.Q2 <= 0 {
+		weight := map[uint64]float64{0: 1.25, 1: 0.75, 2: 1, 4: 2}[ev.Number]
+		if in.PDG != want[0] || in.Process != want[1] || in.SourceEvent != int64(want[2]) || in.Target != want[3] || !in.FromFile || in.Q2 <= 0 || in.Weight != weight {
 			t.Errorf("event %d: interaction %+v, want PDG, process, number, target %v", ev.Number, in, want)
 		}
 		n++
