@@ -10,8 +10,9 @@
 //	go run ./examples/coverage -attenuation 1500,3000,6000 -tts ""
 //	go run ./examples/coverage -particle mu- -energy 400 -n 40 -sensors medium -tts ""
 //
-// Electrons, positrons and photons up to 100 MeV are reconstructed with the
-// low-energy fitter (package fit); other particles and energies with the
+// Electrons, positrons and photons up to the top of the low-energy
+// fitter's calibration (lowenergy.Fitter.EkinRange, 100 MeV for the
+// built-in tables) are reconstructed with it (fit/lowenergy); other particles and energies with the
 // single-ring fitter (fit/ring), which fits both the electron and the muon
 // hypothesis and so also gives the e/mu mis-identification (about a second
 // per event: keep -n small); -fitter chooses explicitly.
@@ -33,8 +34,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"os"
@@ -47,6 +46,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/parallel"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
@@ -59,7 +60,6 @@ import (
 	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
-	simsetup "github.com/conelight/conelight/sim/setup"
 )
 
 type options struct {
@@ -376,7 +376,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	var low *lowenergy.Fitter
 	if o.fitter != "ring" {
 		c := s.Config()
-		if low, err = lowenergy.New(lowenergy.Config{Setup: simsetup.Setup{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner}}); err != nil {
+		if low, err = lowenergy.New(lowenergy.Config{Setup: c.Setup}); err != nil {
 			return point{}, err
 		}
 	}

@@ -8,9 +8,9 @@ package main
 import (
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"os"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/sim/event"
 )
 

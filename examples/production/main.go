@@ -10,10 +10,10 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"os"
 	"os/signal"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
