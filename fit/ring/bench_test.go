@@ -136,3 +136,23 @@ func benchTanks(b *testing.B) []benchTank {
 	demo.Workers = 1
 	return []benchTank{{"demo", demo}, {"large", largeConfig(b, 1)}}
 }
+
+// BenchmarkChargeTail is the charge likelihood beyond the tables (mu or q
+// above 40 pe), the gamma log density of the library evaluated in the
+// per-sensor loop.
+func BenchmarkChargeTail(b *testing.B) {
+	m := pmt.Large()
+	ct, err := newChargeTable(&m, modelSigma)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	var s float64
+	for i := 0; i < b.N; i++ {
+		s += ct.nllHit(45+float64(i&15), 50)
+	}
+	if math.IsNaN(s) {
+		b.Fatal("NaN")
+	}
+}
