@@ -3,9 +3,9 @@ package geom
 import (
 	"bufio"
 	"fmt"
+	"github.com/conelight/conelight/geom/safefile"
 	"io"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -175,28 +175,6 @@ func WriteSensorCSV(w io.Writer, d *Detector) error {
 // SaveSensorCSV writes d to the file at path atomically: it writes a
 // temporary file in the same directory and renames it over path, so a reader
 // never sees a partial file.
-func SaveSensorCSV(path string, d *Detector) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err := WriteSensorCSV(f, d); err != nil {
-		return err
-	}
-	if err := f.Sync(); err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	if err := f.Close(); err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	if err := os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("geom: %w", err)
-	}
-	return nil
+func SaveSensorCSV(path string, d *Detector) error {
+	return safefile.Write(path, func(w io.Writer) error { return WriteSensorCSV(w, d) })
 }

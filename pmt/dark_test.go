@@ -1,6 +1,7 @@
 package pmt
 
 import (
+	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -8,12 +9,6 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
-
-// chiSquareCritical returns the chi-square value exceeded with
-// probability p for dof degrees of freedom (statistical).
-func chiSquareCritical(dof int, p float64) float64 {
-	return distuv.ChiSquared{K: float64(dof)}.Quantile(1 - p)
-}
 
 func TestDarkCountIsPoisson(t *testing.T) {
 	// Statistical: the histogram of dark counts per call over many calls
@@ -35,7 +30,7 @@ func TestDarkCountIsPoisson(t *testing.T) {
 		pois := distuv.Poisson{Lambda: mean}
 		rng := rand.New(rand.NewPCG(21, 22))
 		maxK := int(mean + 20*math.Sqrt(mean) + 20)
-		counts := make([]float64, maxK+1)
+		counts := make([]int, maxK+1)
 		var buf []Photoelectron
 		for range trials {
 			var err error
@@ -45,22 +40,21 @@ func TestDarkCountIsPoisson(t *testing.T) {
 			}
 			counts[min(len(buf), maxK)]++
 		}
-		var chi2, obs, exp float64
-		var bins int
-		for k := 0; k <= maxK; k++ {
-			p := pois.Prob(float64(k))
+		obs := make([]int, maxK+1)
+		exp := make([]float64, maxK+1)
+		for k := range obs {
+			obs[k] = counts[k]
+			exp[k] = trials * pois.Prob(float64(k))
 			if k == maxK {
-				p = pois.Survival(float64(k - 1))
-			}
-			obs += counts[k]
-			exp += trials * p
-			if exp >= 5 && trials*pois.Survival(float64(k)) >= 5 || k == maxK {
-				chi2 += (obs - exp) * (obs - exp) / exp
-				bins++
-				obs, exp = 0, 0
+				exp[k] = trials * pois.Survival(float64(k-1))
 			}
 		}
-		crit := chiSquareCritical(bins-1, 1e-4)
+		chi2, dof, err := resolution.ChiSquare(obs, exp, 0, 5)
+		if err != nil {
+			t.Fatal(err)
+		}
+		bins := dof + 1
+		crit := resolution.ChiSquareCritical(bins-1, 1e-4)
 		t.Logf("%s: mean %v, chi2 = %.1f over %d bins, critical %.1f", c.m.Name, mean, chi2, bins, crit)
 		if chi2 > crit {
 			t.Errorf("%s: dark-count chi2 = %.1f over %d bins, critical %.1f (mean %v)", c.m.Name, chi2, bins, crit, mean)
@@ -77,7 +71,7 @@ func TestDarkUniformOverSensorsAndTime(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var bySensor, byTime [20]float64
+	var bySensor, byTime [20]int
 	for _, pe := range pes {
 		if pe.Origin != Dark || pe.Sensor < 0 || pe.Sensor >= nSensors || pe.Time < t0 || pe.Time >= t1 {
 			t.Fatalf("bad dark pulse %+v", pe)
@@ -85,14 +79,16 @@ func TestDarkUniformOverSensorsAndTime(t *testing.T) {
 		bySensor[pe.Sensor]++
 		byTime[int((pe.Time-t0)/(t1-t0)*20)]++
 	}
-	exp := float64(len(pes)) / 20
-	crit := chiSquareCritical(19, 1e-4)
-	for name, h := range map[string][20]float64{"sensor": bySensor, "time": byTime} {
-		var chi2 float64
-		for _, o := range h {
-			chi2 += (o - exp) * (o - exp) / exp
+	for name, h := range map[string][20]int{"sensor": bySensor, "time": byTime} {
+		exp := make([]float64, 20)
+		for k := range exp {
+			exp[k] = float64(len(pes)) / 20
 		}
-		if chi2 > crit {
+		chi2, dof, err := resolution.ChiSquare(h[:], exp, 0, 5)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if crit := resolution.ChiSquareCritical(dof, 1e-4); chi2 > crit {
 			t.Errorf("%s histogram chi2 = %.1f, critical %.1f", name, chi2, crit)
 		}
 	}

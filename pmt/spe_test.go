@@ -1,6 +1,7 @@
 package pmt
 
 import (
+	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -9,25 +10,6 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
-
-// ksCritical returns the Kolmogorov-Smirnov critical value of the
-// one-sample statistic D for n samples at significance alpha, from the
-// asymptotic Kolmogorov distribution P(sqrt(n) D > x) ~ 2 exp(-2 x^2)
-// (leading term of the Kolmogorov series; statistical).
-func ksCritical(n int, alpha float64) float64 {
-	return math.Sqrt(-math.Log(alpha/2)/2) / math.Sqrt(float64(n))
-}
-
-// ksStatistic returns sup |F_n(x) - F(x)| for the sorted sample xs.
-func ksStatistic(xs []float64, cdf func(float64) float64) float64 {
-	n := float64(len(xs))
-	var d float64
-	for i, x := range xs {
-		f := cdf(x)
-		d = math.Max(d, math.Max(f-float64(i)/n, float64(i+1)/n-f))
-	}
-	return d
-}
 
 func TestSPECDFMatchesGonumGamma(t *testing.T) {
 	// Independent calculation: the gamma peak of mean 1 and relative width
@@ -63,8 +45,8 @@ func TestSPESampleKS(t *testing.T) {
 			sum += q[i]
 		}
 		slices.Sort(q)
-		d := ksStatistic(q, s.CDF)
-		if crit := ksCritical(n, 1e-4); d > crit {
+		d := resolution.KSStatistic(q, s.CDF)
+		if crit := resolution.KSCritical(n, 1e-4); d > crit {
 			t.Errorf("%s: KS D = %.4g exceeds critical %.4g", name, d, crit)
 		}
 		if q[0] < 0 {

@@ -1,6 +1,7 @@
 package sim
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"math/rand/v2"
@@ -113,6 +114,11 @@ func TestWriteRunCancelled(t *testing.T) {
 			t.Fatalf("event %d at position %d", ev.Number, i)
 		}
 	}
+	// It says so: interrupted, the rest of the range missing.
+	r, _ := readAll(t, path)
+	if ri := r.Run(); !ri.Interrupted || !reflect.DeepEqual(ri.Missing, []event.Span{{First: uint64(n), N: 100000 - uint64(n)}}) {
+		t.Errorf("cancelled run records Interrupted %v, Missing %v after %d events", ri.Interrupted, ri.Missing, n)
+	}
 	// A failing run leaves nothing under the final name.
 	bad := filepath.Join(dir, "bad.root")
 	if _, err := s.WriteRun(context.Background(), g, RunOptions{Count: 0}, bad); err == nil {
@@ -142,5 +148,60 @@ func TestWriteRunFailureLeavesNoFile(t *testing.T) {
 	entries, _ := os.ReadDir(filepath.Dir(path))
 	if len(entries) != 0 {
 		t.Errorf("failed run left files: %v", entries)
+	}
+}
+
+func TestWriteRunBytesIndependentOfWorkers(t *testing.T) {
+	// The same seed and settings give the same bytes with 1 and 3
+	// workers (and at different times: the file's dates are fixed).
+	path := filepath.Join(t.TempDir(), "run.root")
+	var files [][]byte
+	for _, workers := range []int{1, 3} {
+		s := demoSim(t, workers, nil)
+		if _, err := s.WriteRun(context.Background(), isoElectrons{6}, RunOptions{Count: 6}, path); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		files = append(files, b)
+	}
+	if !bytes.Equal(files[0], files[1]) {
+		t.Error("files of 1 and 3 workers differ in bytes")
+	}
+}
+
+// fileGen stands for a generator that reads a file: it numbers its
+// events from 1000 and reports skipping one.
+type fileGen struct{ isoElectrons }
+
+func (g fileGen) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
+	p, info, err := g.isoElectrons.Generate(number, rng, dst)
+	info.SourceEvent = 1000 + int(number)
+	return p, info, err
+}
+
+func (g fileGen) SourceStats() event.SourceStats {
+	return event.SourceStats{Read: 5, Skipped: 1, Reasons: []string{"event 1002 (line 77): no particle the simulator tracks"}}
+}
+
+func TestWriteRunSourceGenerator(t *testing.T) {
+	// Events of a file generator keep their number in the file, and the
+	// run record keeps the generator's accounting.
+	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
+	path := filepath.Join(t.TempDir(), "file.root")
+	if _, err := s.WriteRun(context.Background(), fileGen{isoElectrons{6}}, RunOptions{Count: 4}, path); err != nil {
+		t.Fatal(err)
+	}
+	r, evs := readAll(t, path)
+	for _, ev := range evs {
+		in := ev.Truth.Interaction
+		if !in.FromFile || in.SourceEvent != 1000+int64(ev.Number) || in.PDG != 0 || in.Weight != 1 {
+			t.Errorf("event %d: interaction %+v", ev.Number, in)
+		}
+	}
+	if got := r.Run().Source; !reflect.DeepEqual(got, fileGen{}.SourceStats()) {
+		t.Errorf("run record Source = %+v", got)
 	}
 }

@@ -25,6 +25,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 	"os/signal"
@@ -50,6 +51,15 @@ type options struct {
 	noFigures bool
 }
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "demorun",
+	Does:    "Simulates electrons and muons in the demo tank, prints what the detector saw, reconstructs the events and prints the resolution table.",
+	Reads:   "nothing (simulates its own events)",
+	Writes:  "one ROOT event file per sample and the figures (PNG, SVG) into -out; tables on standard output",
+	Example: "go run ./examples/demorun -particle mu- -energy 300,800 -n 200 -seed 7 -out /tmp/run7",
+}
+
 func main() {
 	var o options
 	particle := flag.String("particle", "e-,mu-", "comma-separated particles: e-, e+, mu-, mu+, gamma")
@@ -60,7 +70,7 @@ func main() {
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress bar")
 	flag.IntVar(&o.ringFit, "ringfit", 16, "events per sample reconstructed with the single-ring fitter (0: none)")
 	flag.BoolVar(&o.noFigures, "nofigures", false, "write no figures")
-	flag.Parse()
+	cli.Parse(usage)
 	var err error
 	o.particles = strings.Split(*particle, ",")
 	if o.energies, err = parseEnergies(*energy); err != nil {
@@ -90,8 +100,6 @@ func parseEnergies(s string) ([]float64, error) {
 	return es, nil
 }
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}
-
 func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	if o.n <= 0 {
 		return fmt.Errorf("-n = %d must be positive", o.n)
@@ -117,13 +125,13 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	var samples []*sample
 	for _, name := range o.particles {
 		name = strings.TrimSpace(name)
-		pdg, ok := pdgByName[name]
-		if !ok {
-			return fmt.Errorf("-particle: unknown particle %q (want e-, e+, mu-, mu+ or gamma)", name)
+		pdg, err := phys.ParsePDG(name)
+		if err != nil {
+			return fmt.Errorf("-particle: %w", err)
 		}
 		for _, e := range o.energies {
 			g, err := gen.NewGun(gen.GunConfig{
-				Particles: []gen.GunParticle{{PDG: pdg, Energy: gen.FixedEnergy(e), Direction: gen.Isotropic()}},
+				Particles: []gen.GunParticle{{PDG: pdg, Ekin: gen.FixedEnergy(e), Direction: gen.Isotropic()}},
 				Vertex:    gen.InFiducial(cfg.Detector.Tank(), 100),
 			})
 			if err != nil {

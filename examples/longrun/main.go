@@ -20,6 +20,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 	"os/signal"
@@ -42,6 +43,15 @@ type options struct {
 	check    bool
 }
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "longrun",
+	Does:    "Streams a long run into one ROOT event file with flat memory; an interrupt leaves a complete file.",
+	Reads:   "nothing (simulates its own events)",
+	Writes:  "the event file -out; progress lines on standard error",
+	Example: "go run ./examples/longrun -n 10000 -particle mu- -energy 300 -out /tmp/mu.root",
+}
+
 func main() {
 	var o options
 	flag.Uint64Var(&o.n, "n", 100000, "number of events")
@@ -51,7 +61,7 @@ func main() {
 	flag.StringVar(&o.out, "out", "longrun.root", "output event file")
 	flag.DurationVar(&o.every, "progress", 2*time.Second, "interval between progress lines")
 	flag.BoolVar(&o.check, "check", true, "read the file back at the end and count its events")
-	flag.Parse()
+	cli.Parse(usage)
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	written, err := run(ctx, os.Stdout, os.Stderr, o)
@@ -71,14 +81,12 @@ func main() {
 	}
 }
 
-var pdgByName = map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}
-
 // run simulates o.n events to o.out and returns the number written; on
 // cancellation the error is ctx's and the file holds the events done.
 func run(ctx context.Context, stdout, stderr io.Writer, o options) (int, error) {
-	pdg, ok := pdgByName[o.particle]
-	if !ok {
-		return 0, fmt.Errorf("-particle: unknown particle %q (want e-, e+, mu-, mu+ or gamma)", o.particle)
+	pdg, err := phys.ParsePDG(o.particle)
+	if err != nil {
+		return 0, fmt.Errorf("-particle: %w", err)
 	}
 	if o.n == 0 {
 		return 0, errors.New("-n must be positive")
@@ -92,7 +100,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) (int, error) 
 		return 0, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdg, Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: pdg, Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(cfg.Detector.Tank(), 100),
 	})
 	if err != nil {

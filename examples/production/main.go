@@ -10,6 +10,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"os"
 	"os/signal"
 
@@ -32,6 +33,15 @@ type options struct {
 	wall       float64
 }
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "production",
+	Does:    "Simulates one shard of a large particle-gun run for a batch system (one job per -shard), to be joined with mergeshards.",
+	Reads:   "optionally a sensor-layout CSV file (-layout)",
+	Writes:  "the shard's ROOT event file -out",
+	Example: "go run ./examples/production -particle mu- -emin 200 -emax 1000 -count 100000 -seed 12345 -shard 3 -shards 50 -out part-3.root",
+}
+
 func main() {
 	var o options
 	flag.StringVar(&o.particle, "particle", "e-", "particle: e-, e+, mu-, mu+, gamma")
@@ -44,7 +54,7 @@ func main() {
 	flag.StringVar(&o.layout, "layout", "", "sensor-layout CSV file (default: the demo tank); its sensors must be of the medium class")
 	flag.Float64Var(&o.wall, "wall", 100, "minimum vertex distance to the wall, cm")
 	flag.StringVar(&o.out, "out", "events.root", "output file")
-	flag.Parse()
+	cli.Parse(usage)
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	n, err := run(ctx, o)
@@ -56,9 +66,9 @@ func main() {
 }
 
 func run(ctx context.Context, o options) (int, error) {
-	pdg, ok := map[string]int{"e-": phys.Electron, "e+": phys.Positron, "mu-": phys.MuonMinus, "mu+": phys.MuonPlus, "gamma": phys.Gamma}[o.particle]
-	if !ok {
-		return 0, fmt.Errorf("-particle = %q: want e-, e+, mu-, mu+ or gamma", o.particle)
+	pdg, err := phys.ParsePDG(o.particle)
+	if err != nil {
+		return 0, fmt.Errorf("-particle: %w", err)
 	}
 	cfg, err := sim.DemoConfig(o.seed)
 	if err != nil {
@@ -82,7 +92,7 @@ func run(ctx context.Context, o options) (int, error) {
 		energy = gen.UniformEnergy(o.emin, o.emax)
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdg, Energy: energy, Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: pdg, Ekin: energy, Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(cfg.Detector.Tank(), o.wall),
 	})
 	if err != nil {

@@ -11,6 +11,7 @@ package main
 import (
 	"flag"
 	"fmt"
+	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 
@@ -22,11 +23,20 @@ import (
 // Wagner and Pruss, J. Phys. Chem. Ref. Data 31 (2002) 387; from memory).
 const waterDensity = 0.9982
 
+// usage is the program's -h text.
+var usage = cli.Usage{
+	Name:    "tankreport",
+	Does:    "Prints the geometry and coverage of the demo or large tank for each preset sensor class.",
+	Reads:   "nothing",
+	Writes:  "the report on standard output; optionally the layout as a sensor CSV file (-csv)",
+	Example: "go run ./examples/tankreport -tank large -coverage 0.4 -csv large40.csv",
+}
+
 func main() {
 	tankName := flag.String("tank", "demo", "tank: demo or large")
 	coverage := flag.Float64("coverage", 0, "photocathode coverage to report (0: 0.2, 0.3 and 0.4)")
 	csvPath := flag.String("csv", "", "write the layout of the large sensor class at -coverage to this CSV file")
-	flag.Parse()
+	cli.Parse(usage)
 	if err := run(os.Stdout, *tankName, *coverage, *csvPath); err != nil {
 		fmt.Fprintln(os.Stderr, "tankreport:", err)
 		os.Exit(1)

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
@@ -69,6 +70,9 @@ func Write(w io.Writer, f Figure, width, height vg.Length, format Format) error 
 	}
 	if err := checkSize(width, height); err != nil {
 		return err
+	}
+	if p, ok := f.(*plot.Plot); ok {
+		f = Grid{Rows: 1, Cols: 1, Plots: []*plot.Plot{p}} // legend off the data
 	}
 	switch format {
 	case PNG:

@@ -5,14 +5,14 @@ import (
 
 	"github.com/golang/geo/r3"
 
-	"github.com/conelight/conelight/sim/gen"
+	"github.com/conelight/conelight/sim/phys"
 )
 
 // NeutrinoEnergy returns the parent neutrino energy (MeV) of a
 // charged-current quasi-elastic interaction on a bound neutron,
 // reconstructed from the fitted lepton of r and the beam direction with the
-// two-body formula of gen.QuasiElasticEnergyOf (struck nucleon at rest,
-// its mass less the oxygen binding energy of gen.OxygenFermiGas). beam
+// two-body formula of phys.QuasiElasticEnergyOf (struck nucleon at rest,
+// its mass less phys.OxygenBindingEnergy). beam
 // need not be normalized. An unconverged result, a zero beam or an
 // unphysical combination gives an error.
 func NeutrinoEnergy(r *Result, beam r3.Vector) (float64, error) {
@@ -25,7 +25,7 @@ func NeutrinoEnergy(r *Result, beam r3.Vector) (float64, error) {
 	}
 	cos := r.Track.Dir.Dot(beam) / (n * r.Track.Dir.Norm())
 	cos = min(max(cos, -1), 1)
-	e, err := gen.QuasiElasticEnergyOf(r.Hypothesis.PDG(), r.Track.Ekin, cos, gen.OxygenFermiGas().BindingEnergy)
+	e, err := phys.QuasiElasticEnergyOf(r.Hypothesis.PDG(), r.Track.Ekin, cos, phys.OxygenBindingEnergy)
 	if err != nil {
 		return 0, fmt.Errorf("ring: NeutrinoEnergy: %w", err)
 	}

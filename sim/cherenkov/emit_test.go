@@ -1,6 +1,7 @@
 package cherenkov
 
 import (
+	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -106,7 +107,7 @@ func TestEmitSpectrum(t *testing.T) {
 			exp[i] = p[i] * float64(len(x))
 		}
 		obs := histogram(x, edges)
-		if stat, crit := chiSquare(obs, exp, 0); stat > crit {
+		if stat, crit := chiSquare(t, obs, exp); stat > crit {
 			t.Errorf("beta %g: spectrum chi2 = %g > %g (%d bins, %d photons)", beta, stat, crit, len(obs), len(x))
 		}
 		// Mostly blue/violet (common practice): the spectrum falls with
@@ -154,7 +155,7 @@ func TestEmitCone(t *testing.T) {
 	for i := range p {
 		exp[i] = p[i] * float64(len(ph))
 	}
-	if stat, crit := chiSquare(histogram(cosines, cEdges), exp, 0); stat > crit {
+	if stat, crit := chiSquare(t, histogram(cosines, cEdges), exp); stat > crit {
 		t.Errorf("cos theta chi2 = %g > %g", stat, crit)
 	}
 	deg := math.Acos(slices.Min(cosines)) * 180 / math.Pi
@@ -210,7 +211,7 @@ func TestEmitAlongSlowingStep(t *testing.T) {
 	for i := range exp {
 		exp[i] *= float64(len(pos)) / total
 	}
-	if stat, crit := chiSquare(histogram(pos, edges), exp, 0); stat > crit {
+	if stat, crit := chiSquare(t, histogram(pos, edges), exp); stat > crit {
 		t.Errorf("position chi2 = %g > %g", stat, crit)
 	}
 	// The count: Poisson mean = z^2 times the integrated yield, checked
@@ -259,7 +260,7 @@ func TestPrescale(t *testing.T) {
 	slices.Sort(x)
 	slices.Sort(thinned)
 	d := stat.KolmogorovSmirnov(x, nil, thinned, nil)
-	if crit := ksTwoSampleCritical(len(x), len(thinned)); d > crit {
+	if crit := resolution.KSTwoSampleCritical(len(x), len(thinned), testAlpha); d > crit {
 		t.Errorf("two-sample KS D = %g > %g", d, crit)
 	}
 }

@@ -4,14 +4,16 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/conelight/conelight/sim/cherenkov"
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// MaxEnergy is the upper end of the model range (MeV): the tables stop
+// MaxEkin is the upper end of the model range (MeV; kinetic energy of
+// electrons and positrons, the energy of photons): the tables stop
 // there, and above it the LPM suppression of bremsstrahlung and pair
 // production in water (onset at several TeV) would still be negligible,
 // but nothing here has been checked beyond it.
-const MaxEnergy = 1e5
+const MaxEkin = 1e5
 
 // minCut is the lowest cut or tracking energy accepted (MeV). Below about
 // 10 keV the Bethe theory of the collision stopping power with I = 75 eV
@@ -62,21 +64,22 @@ type Config struct {
 
 // DefaultConfig returns the cuts tied to the Cherenkov threshold of water
 // with n = 1.34, steps of at most 1 cm and 3% continuous energy loss.
-func DefaultConfig() Config { return configForIndex(1.34) }
+func DefaultConfig() Config {
+	// 1.34 is a valid index: ConfigForIndex cannot fail (TestThresholds
+	// checks the cuts).
+	c, _ := ConfigForIndex(1.34)
+	return c
+}
 
 // ConfigForIndex returns DefaultConfig with the cuts tied to the
 // Cherenkov threshold of refractive index n instead: charged and delta
 // cuts at the threshold kinetic energy, photon and brems cuts at the
 // photon energy whose Compton edge reaches it.
 func ConfigForIndex(n float64) (Config, error) {
-	if _, err := CherenkovThreshold(n); err != nil {
-		return Config{}, err
+	tc, err := cherenkov.ThresholdKinetic(phys.ElectronMass, n)
+	if err != nil {
+		return Config{}, fmt.Errorf("em: %w", err)
 	}
-	return configForIndex(n), nil
-}
-
-func configForIndex(n float64) Config {
-	tc := cherenkovThreshold(n)
 	kc := ComptonThreshold(tc)
 	return Config{
 		RefractiveIndex:       n,
@@ -86,27 +89,14 @@ func configForIndex(n float64) Config {
 		PhotonCut:             kc,
 		MaxStep:               1,
 		MaxEnergyLossFraction: 0.03,
-	}
-}
-
-// CherenkovThreshold returns the electron kinetic energy (MeV) at which
-// beta = 1/n: T = m (n/sqrt(n^2-1) - 1).
-func CherenkovThreshold(n float64) (float64, error) {
-	if !(n > 1) || math.IsInf(n, 0) {
-		return 0, fmt.Errorf("em: refractive index %g must be finite and above 1", n)
-	}
-	return cherenkovThreshold(n), nil
-}
-
-func cherenkovThreshold(n float64) float64 {
-	return phys.ElectronMass * (n/math.Sqrt(n*n-1) - 1)
+	}, nil
 }
 
 // ComptonThreshold returns the photon energy k (MeV) whose Compton edge,
-// the largest electron kinetic energy 2k^2/(m + 2k), equals tkin (MeV):
-// k = (tkin/2)(1 + sqrt(1 + 2m/tkin)).
-func ComptonThreshold(tkin float64) float64 {
-	return tkin / 2 * (1 + math.Sqrt(1+2*phys.ElectronMass/tkin))
+// the largest electron kinetic energy 2k^2/(m + 2k), equals ekin (MeV):
+// k = (ekin/2)(1 + sqrt(1 + 2m/ekin)).
+func ComptonThreshold(ekin float64) float64 {
+	return ekin / 2 * (1 + math.Sqrt(1+2*phys.ElectronMass/ekin))
 }
 
 // Validate reports the first field that is out of range.
@@ -122,8 +112,8 @@ func (c Config) Validate() error {
 		{"BremsCut", c.BremsCut}, {"PhotonCut", c.PhotonCut},
 	}
 	for _, cut := range cuts {
-		if !(cut.v >= minCut && cut.v <= MaxEnergy/10) {
-			return fmt.Errorf("em: Config.%s = %g MeV must lie in [%g, %g] MeV", cut.name, cut.v, minCut, MaxEnergy/10)
+		if !(cut.v >= minCut && cut.v <= MaxEkin/10) {
+			return fmt.Errorf("em: Config.%s = %g MeV must lie in [%g, %g] MeV", cut.name, cut.v, minCut, MaxEkin/10)
 		}
 	}
 	if !(c.MaxStep > 0) || math.IsInf(c.MaxStep, 0) {

@@ -17,10 +17,11 @@ func TestThresholds(t *testing.T) {
 	// an independent evaluation); Compton edge: 2k^2/(m+2k) = T at the
 	// returned k (two-body kinematics, backscattering).
 	for _, n := range []float64{1.33, 1.34, 1.5} {
-		tc, err := CherenkovThreshold(n)
+		c, err := ConfigForIndex(n)
 		if err != nil {
 			t.Fatal(err)
 		}
+		tc := c.ChargedCut
 		if b := phys.Beta(tc, phys.ElectronMass); math.Abs(b*n-1) > 1e-12 {
 			t.Errorf("n=%g: beta at threshold %g, want %g", n, b, 1/n)
 		}
@@ -34,8 +35,8 @@ func TestThresholds(t *testing.T) {
 	if math.Abs(c.ChargedCut-0.2567) > 1e-4 || math.Abs(c.PhotonCut-0.4148) > 1e-4 {
 		t.Errorf("default cuts %g, %g MeV", c.ChargedCut, c.PhotonCut)
 	}
-	if _, err := CherenkovThreshold(0.9); err == nil {
-		t.Error("CherenkovThreshold(0.9) gave no error")
+	if _, err := ConfigForIndex(0.9); err == nil {
+		t.Error("ConfigForIndex(0.9) gave no error")
 	}
 }
 

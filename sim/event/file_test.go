@@ -174,7 +174,7 @@ func TestAtomicWrite(t *testing.T) {
 		t.Fatal(err)
 	}
 	names := dirEntries(t, dir)
-	if len(names) != 1 || !strings.HasPrefix(names[0], ".run.root.tmp-") {
+	if !slices.Equal(names, []string{".run.root.tmp"}) {
 		t.Fatalf("directory during writing holds %v, want one temporary file", names)
 	}
 	if err := w.Close(); err != nil {
@@ -242,7 +242,11 @@ func TestWriteRejectsBadEvents(t *testing.T) {
 		}},
 		{"Truth.DarkPE = -1 must not be negative", func(e *Event) { e.Truth.DarkPE = -1 }},
 		{"Truth.TriggerTime = 5 must be 0 when Triggered is false", func(e *Event) { e.Truth.Triggered, e.Truth.TriggerTime = false, 5 }},
-		{"Truth.Neutrino.Nucleon.Ekin = -Inf", func(e *Event) { e.Truth.Neutrino.Nucleon.Ekin = -inf() }},
+		{"Truth.Interaction.Nucleon.Ekin = -Inf", func(e *Event) { e.Truth.Interaction.Nucleon.Ekin = -inf() }},
+		{"Truth.Interaction.Weight = NaN", func(e *Event) { e.Truth.Interaction.Weight = nan() }},
+		{"Truth.Interaction.SourceEvent = 4 must be 0 when FromFile is false", func(e *Event) {
+			e.Truth.Interaction.SourceEvent, e.Truth.Interaction.FromFile = 4, false
+		}},
 	} {
 		e := good()
 		tc.edit(&e)

@@ -16,8 +16,8 @@ import (
 func ExampleGun() {
 	g, err := gen.NewGun(gen.GunConfig{
 		Particles: []gen.GunParticle{
-			{PDG: phys.MuonMinus, Energy: gen.UniformEnergy(200, 1000), Direction: gen.InCone(r3.Vector{Z: 1}, 0.2)},
-			{PDG: phys.Gamma, Energy: gen.FixedEnergy(15), Direction: gen.Isotropic()},
+			{PDG: phys.MuonMinus, Ekin: gen.UniformEnergy(200, 1000), Direction: gen.InCone(r3.Vector{Z: 1}, 0.2)},
+			{PDG: phys.Gamma, Ekin: gen.FixedEnergy(15), Direction: gen.Isotropic()},
 		},
 		Vertex: gen.InFiducial(geom.DemoTank(), 200),
 	})
@@ -45,7 +45,7 @@ func ExampleGun() {
 func ExampleQE() {
 	q, err := gen.NewQE(gen.QEConfig{
 		Neutrino: phys.MuonNeu,
-		Energy:   gen.FixedEnergy(800),
+		Etot:     gen.FixedEnergy(800),
 		Beam:     r3.Vector{X: 1},
 		Vertex:   gen.AtPoint(r3.Vector{}),
 		Target:   gen.Water,
@@ -63,23 +63,10 @@ func ExampleQE() {
 	mu := ps[0]
 	fmt.Printf("%v on %d: Q2 = %.3f GeV^2, |p_F| = %.0f MeV/c\n", info.Reaction, info.Target, info.Q2/1e6, info.FermiMomentum.Norm())
 	fmt.Printf("mu-: Ekin %.1f MeV, cos theta %.3f; p: Ekin %.1f MeV\n", mu.Ekin, mu.Dir.X, info.FinalNucleon.Ekin)
-	eqe, _ := gen.QuasiElasticEnergyOf(mu.PDG, mu.Ekin, mu.Dir.X, 27)
-	fmt.Printf("quasi-elastic energy %.0f MeV (true %.0f MeV)\n", eqe, info.NeutrinoEnergy)
+	eqe, _ := phys.QuasiElasticEnergyOf(mu.PDG, mu.Ekin, mu.Dir.X, phys.OxygenBindingEnergy)
+	fmt.Printf("quasi-elastic energy %.0f MeV (true %.0f MeV)\n", eqe, info.NeutrinoEtot)
 	// Output:
 	// CCQE on 1000080160: Q2 = 0.269 GeV^2, |p_F| = 167 MeV/c
 	// mu-: Ekin 417.1 MeV, cos theta 0.679; p: Ekin 266.2 MeV
 	// quasi-elastic energy 672 MeV (true 800 MeV)
-}
-
-// The neutrino energy from the lepton alone, for a free-nucleon event (exact)
-// and with the oxygen binding energy.
-func ExampleQuasiElasticEnergy() {
-	// A 500 MeV (kinetic) mu- at 30 degrees to the beam.
-	ekin, cos := 500.0, 0.8660254037844386
-	m := phys.MuonMass
-	free, _ := gen.QuasiElasticEnergy(ekin+m, cos, m, phys.NeutronMass, 0, phys.ProtonMass)
-	bound, _ := gen.QuasiElasticEnergy(ekin+m, cos, m, phys.NeutronMass, 27, phys.ProtonMass)
-	fmt.Printf("E_nu = %.1f MeV (free), %.1f MeV (E_b = 27 MeV)\n", free, bound)
-	// Output:
-	// E_nu = 661.2 MeV (free), 693.4 MeV (E_b = 27 MeV)
 }

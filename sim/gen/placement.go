@@ -178,3 +178,5 @@ func (d DirDist) String() string {
 }
 
 func finiteVector(v r3.Vector) bool { return isFinite(v.X) && isFinite(v.Y) && isFinite(v.Z) }
+
+func isFinite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

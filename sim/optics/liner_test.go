@@ -1,6 +1,7 @@
 package optics
 
 import (
+	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -50,7 +51,7 @@ func TestLambertianReflectKS(t *testing.T) {
 		cs[i] = v.Dot(n)
 		sum = sum.Add(v.Sub(n.Mul(cs[i])))
 	}
-	if d, crit := ksStatistic(cs, func(c float64) float64 { return c * c }), ksCritical(N, ksAlpha); d > crit {
+	if d, crit := resolution.KSStatistic(cs, func(c float64) float64 { return c * c }), resolution.KSCritical(N, ksAlpha); d > crit {
 		t.Errorf("Lambertian cos: KS D = %g > %g", d, crit)
 	}
 	if m := sum.Mul(1.0 / N).Norm(); m > 5*0.5/math.Sqrt(N)*math.Sqrt(3) {

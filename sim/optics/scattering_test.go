@@ -1,6 +1,7 @@
 package optics
 
 import (
+	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -80,7 +81,7 @@ func TestScatterSamplersKS(t *testing.T) {
 		for i := range x {
 			x[i] = draw(rng)
 		}
-		if d, crit := ksStatistic(x, cdf), ksCritical(n, ksAlpha); d > crit {
+		if d, crit := resolution.KSStatistic(x, cdf), resolution.KSCritical(n, ksAlpha); d > crit {
 			t.Errorf("%s: KS D = %g > %g (alpha %g)", name, d, crit, ksAlpha)
 		}
 	}

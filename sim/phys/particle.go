@@ -3,6 +3,7 @@ package phys
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/golang/geo/r3"
 )
@@ -56,8 +57,45 @@ func Lookup(pdg int) (Species, error) {
 		return Species{pdg, "p", ProtonMass, +1}, nil
 	case NeutronCode:
 		return Species{pdg, "n", NeutronMass, 0}, nil
+	case PionPlusCode:
+		return Species{pdg, "pi+", PionMass, +1}, nil
+	case PionMinusCode:
+		return Species{pdg, "pi-", PionMass, -1}, nil
+	case NeutralPionCode:
+		return Species{pdg, "pi0", PionZeroMass, 0}, nil
 	}
 	return Species{}, fmt.Errorf("phys: unknown PDG code %d", pdg)
+}
+
+// KnownPDG returns the PDG codes Lookup knows, in the order of the
+// constants above.
+func KnownPDG() []int {
+	return []int{Electron, Positron, ElectronNeu, AntiElecNeu, MuonMinus, MuonPlus, MuonNeu, AntiMuonNeu, Gamma, ProtonCode, NeutronCode, PionPlusCode, PionMinusCode, NeutralPionCode}
+}
+
+// ParsePDG returns the PDG code of a particle name of the table ("e-",
+// "e+", "mu-", "mu+", "gamma", "nu_e", "anti-nu_e", "nu_mu", "anti-nu_mu",
+// "p", "n", "pi+", "pi-", "pi0"): the inverse of PDGName. An unknown name is an error listing
+// the known ones.
+func ParsePDG(name string) (int, error) {
+	var names []string
+	for _, pdg := range KnownPDG() {
+		sp, _ := Lookup(pdg)
+		if sp.Name == name {
+			return pdg, nil
+		}
+		names = append(names, sp.Name)
+	}
+	return 0, fmt.Errorf("phys: unknown particle name %q (known: %s)", name, strings.Join(names, ", "))
+}
+
+// PDGName returns the name of a PDG code for labels ("mu-" for 13), or
+// "PDG <code>" for a code conelight does not know.
+func PDGName(pdg int) string {
+	if sp, err := Lookup(pdg); err == nil {
+		return sp.Name
+	}
+	return fmt.Sprintf("PDG %d", pdg)
 }
 
 // Beta returns v/c of a particle of the given mass with kinetic energy

@@ -3,6 +3,8 @@ package phys
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
+	"strings"
 	"testing"
 
 	"github.com/golang/geo/r3"
@@ -58,5 +60,47 @@ func TestKinematics(t *testing.T) {
 	}
 	if s, _ := Lookup(MuonMinus); s.Charge != -1 || s.Mass != MuonMass {
 		t.Errorf("mu- species = %+v", s)
+	}
+}
+
+func TestParsePDG(t *testing.T) {
+	seen := map[string]int{}
+	for _, pdg := range KnownPDG() {
+		sp, err := Lookup(pdg)
+		if err != nil {
+			t.Fatalf("KnownPDG lists %d, which Lookup does not know: %v", pdg, err)
+		}
+		name := PDGName(pdg)
+		if name != sp.Name {
+			t.Errorf("PDGName(%d) = %q, Lookup says %q", pdg, name, sp.Name)
+		}
+		if other, dup := seen[name]; dup {
+			t.Errorf("codes %d and %d share the name %q", other, pdg, name)
+		}
+		seen[name] = pdg
+		if got, err := ParsePDG(name); err != nil || got != pdg {
+			t.Errorf("ParsePDG(%q) = %d, %v; want %d", name, got, err, pdg)
+		}
+	}
+	// Independent spot checks against the PDG Monte Carlo numbering.
+	for name, want := range map[string]int{"e-": 11, "mu+": -13, "gamma": 22, "anti-nu_mu": -14, "p": 2212} {
+		if got, err := ParsePDG(name); err != nil || got != want {
+			t.Errorf("ParsePDG(%q) = %d, %v; want %d", name, got, err, want)
+		}
+	}
+	for _, bad := range []string{"", "electron", "E-", "mu"} {
+		if _, err := ParsePDG(bad); err == nil || !strings.Contains(err.Error(), "mu-") {
+			t.Errorf("ParsePDG(%q): error %v should list the known names", bad, err)
+		}
+	}
+	if got := PDGName(0); got != "PDG 0" { // 0 is no particle
+		t.Errorf("PDGName(0) = %q", got)
+	}
+	// KnownPDG lists every code Lookup knows (scanning the codes of
+	// elementary particles and hadrons, |code| < 10^4).
+	for pdg := -10000; pdg <= 10000; pdg++ {
+		if _, err := Lookup(pdg); err == nil && !slices.Contains(KnownPDG(), pdg) {
+			t.Errorf("Lookup knows %d, KnownPDG does not list it", pdg)
+		}
 	}
 }

@@ -31,10 +31,12 @@ import (
 	"log"
 	"math"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 func main() {
@@ -137,7 +139,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		dirEdges[i] = -1 + 2*float64(i)/float64(dirBins)
 	}
 	t.Direction = uniformDensity(dirEdges)
-	provisional, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	provisional, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -167,7 +169,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 	t.Meta["direction"] = fmt.Sprintf("%d prompt hits in [%.2f, %.2f] ns", nDir, lo, hi)
 
 	// 3. Energy calibration with full fits.
-	fitter, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	fitter, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -192,10 +194,10 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			if err != nil {
 				return nil, err
 			}
-			if r.Converged {
+			if r.Status == fit.Converged {
 				neff = append(neff, r.Neff)
 				p := ev.Truth.Primaries[0]
-				shift = append(shift, r.Vertex.Sub(p.Pos).Dot(r.Dir))
+				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(r.Track.Dir))
 			}
 		}
 		g, err := resolution.GaussianCore(neff, 2)
@@ -264,4 +266,9 @@ func uniformDensity(edges []float64) []lowenergy.Bin {
 		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
 	}
 	return bins
+}
+
+// setupOf returns the detector description of a simulation configuration.
+func setupOf(cfg sim.Config) setup.Setup {
+	return setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}
 }

@@ -1,14 +1,18 @@
-package gen
-
-// This file is kept free of everything but math, fmt and sim/phys: the
-// reconstruction uses it.
+package phys
 
 import (
 	"fmt"
 	"math"
-
-	"github.com/conelight/conelight/sim/phys"
 )
+
+// OxygenBindingEnergy is the binding energy E_b (MeV) taken off a nucleon
+// struck in 16O, in the relativistic Fermi gas of the quasi-elastic
+// generator (sim/gen.OxygenFermiGas) and in the neutrino energy the
+// reconstruction infers from a lepton: a value commonly used for oxygen in
+// neutrino work, close to the fits to quasi-elastic electron scattering of
+// Moniz et al., Phys. Rev. Lett. 26 (1971) 445 for neighbouring nuclei
+// (from memory; common practice).
+const OxygenBindingEnergy = 27.0
 
 // QuasiElasticEnergy returns the neutrino energy (MeV) of a quasi-elastic
 // interaction nu N -> l N' reconstructed from the charged lepton alone,
@@ -28,24 +32,24 @@ import (
 func QuasiElasticEnergy(eLepton, cosTheta, leptonMass, initialMass, bindingEnergy, finalMass float64) (float64, error) {
 	switch {
 	case !isFinite(leptonMass) || leptonMass < 0:
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: leptonMass = %g must be finite and >= 0", leptonMass)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: leptonMass = %g must be finite and >= 0", leptonMass)
 	case !isFinite(eLepton) || eLepton < leptonMass:
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: eLepton = %g must be finite and >= leptonMass %g", eLepton, leptonMass)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: eLepton = %g must be finite and >= leptonMass %g", eLepton, leptonMass)
 	case math.IsNaN(cosTheta) || math.Abs(cosTheta) > 1:
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: cosTheta = %g must be in [-1, 1]", cosTheta)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: cosTheta = %g must be in [-1, 1]", cosTheta)
 	case !isFinite(initialMass) || !(initialMass > 0):
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: initialMass = %g must be positive and finite", initialMass)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: initialMass = %g must be positive and finite", initialMass)
 	case !isFinite(finalMass) || !(finalMass > 0):
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: finalMass = %g must be positive and finite", finalMass)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: finalMass = %g must be positive and finite", finalMass)
 	case !isFinite(bindingEnergy) || bindingEnergy < 0 || bindingEnergy >= initialMass:
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: bindingEnergy = %g must be finite, >= 0 and below initialMass", bindingEnergy)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: bindingEnergy = %g must be finite, >= 0 and below initialMass", bindingEnergy)
 	}
 	m := initialMass - bindingEnergy
 	pl := math.Sqrt((eLepton - leptonMass) * (eLepton + leptonMass))
 	den := 2 * (m - eLepton + pl*cosTheta)
 	num := 2*m*eLepton - (m*m + leptonMass*leptonMass - finalMass*finalMass)
 	if !(den > 0) || !(num > 0) {
-		return 0, fmt.Errorf("gen: QuasiElasticEnergy: no quasi-elastic solution for eLepton = %g MeV, cosTheta = %g", eLepton, cosTheta)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergy: no quasi-elastic solution for eLepton = %g MeV, cosTheta = %g", eLepton, cosTheta)
 	}
 	return num / den, nil
 }
@@ -56,16 +60,16 @@ func QuasiElasticEnergy(eLepton, cosTheta, leptonMass, initialMass, bindingEnerg
 func QuasiElasticEnergyOf(lepton int, ekin, cosTheta, bindingEnergy float64) (float64, error) {
 	var mi, mf float64
 	switch lepton {
-	case phys.Electron, phys.MuonMinus:
-		mi, mf = phys.NeutronMass, phys.ProtonMass
-	case phys.Positron, phys.MuonPlus:
-		mi, mf = phys.ProtonMass, phys.NeutronMass
+	case Electron, MuonMinus:
+		mi, mf = NeutronMass, ProtonMass
+	case Positron, MuonPlus:
+		mi, mf = ProtonMass, NeutronMass
 	default:
-		return 0, fmt.Errorf("gen: QuasiElasticEnergyOf: lepton = %d is not e-, e+, mu- or mu+", lepton)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergyOf: lepton = %d is not e-, e+, mu- or mu+", lepton)
 	}
-	sp, _ := phys.Lookup(lepton)
+	sp, _ := Lookup(lepton)
 	if !isFinite(ekin) || ekin < 0 {
-		return 0, fmt.Errorf("gen: QuasiElasticEnergyOf: ekin = %g must be finite and >= 0", ekin)
+		return 0, fmt.Errorf("phys: QuasiElasticEnergyOf: ekin = %g must be finite and >= 0", ekin)
 	}
 	return QuasiElasticEnergy(ekin+sp.Mass, cosTheta, sp.Mass, mi, bindingEnergy, mf)
 }
