@@ -14,6 +14,7 @@ import (
 	"os/signal"
 
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
@@ -29,6 +30,7 @@ type options struct {
 	shard      int
 	shards     int
 	layout     string
+	detector   string // -detector (detflag); empty means the demo tank
 	out        string
 	wall       float64
 }
@@ -37,7 +39,7 @@ type options struct {
 var usage = cli.Usage{
 	Name:    "production",
 	Does:    "Simulates one shard of a large particle-gun run for a batch system (one job per -shard), to be joined with mergeshards.",
-	Reads:   "optionally a sensor-layout CSV file (-layout)",
+	Reads:   "optionally a detector description (-detector) and a sensor-layout CSV file (-layout)",
 	Writes:  "the shard's ROOT event file -out",
 	Example: "go run ./examples/production -particle mu- -emin 200 -emax 1000 -count 100000 -seed 12345 -shard 3 -shards 50 -out part-3.root",
 }
@@ -51,7 +53,8 @@ func main() {
 	flag.Uint64Var(&o.seed, "seed", 1, "run seed (the same for every shard)")
 	flag.IntVar(&o.shard, "shard", 0, "this job's shard, 0 .. shards-1")
 	flag.IntVar(&o.shards, "shards", 1, "number of shards of the run")
-	flag.StringVar(&o.layout, "layout", "", "sensor-layout CSV file (default: the demo tank); its sensors must be of the medium class")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage)
+	flag.StringVar(&o.layout, "layout", "", "sensor-layout CSV file of medium-class sensors, replacing the -detector's layout (a description file can name a CSV itself: [layout] sensor_csv)")
 	flag.Float64Var(&o.wall, "wall", 100, "minimum vertex distance to the wall, cm")
 	flag.StringVar(&o.out, "out", "events.root", "output file")
 	cli.Parse(usage)
@@ -70,7 +73,7 @@ func run(ctx context.Context, o options) (int, error) {
 	if err != nil {
 		return 0, fmt.Errorf("-particle: %w", err)
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return 0, err
 	}
@@ -80,6 +83,7 @@ func run(ctx context.Context, o options) (int, error) {
 			return 0, err
 		}
 		cfg.Detector = det
+		cfg.Dead = nil // indices of the replaced layout
 		cfg.Sensor = pmt.Medium()
 		cfg.Sensor.CathodeDiameter = det.CathodeDiameter()
 	}

@@ -6,6 +6,7 @@ import (
 	"reflect"
 	"testing"
 
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/sim/event"
 )
 
@@ -53,5 +54,31 @@ func TestShardsAndMerge(t *testing.T) {
 	}
 	if _, err := run(context.Background(), options{particle: "kaon"}); err == nil {
 		t.Error("unknown particle accepted")
+	}
+}
+
+// -detector: a production of a described tank writes that tank's
+// detector, and the event file reproduces it through -detector again
+// (all but the dead sensors, which event files do not record).
+func TestDetectorFile(t *testing.T) {
+	example := filepath.Join("..", "..", "testdata", "setup", "example.toml")
+	want, err := detflag.Load(example)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "pool.root")
+	o := options{particle: "e-", emin: 15, emax: 15, count: 2, seed: 3, shards: 1, wall: 100, detector: example, out: out}
+	if _, err := run(context.Background(), o); err != nil {
+		t.Fatal(err)
+	}
+	got, err := detflag.Load(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Detector.NumSensors() != want.Detector.NumSensors() || got.Sensor.Name != want.Sensor.Name ||
+		got.Water.Config() != want.Water.Config() || got.Liner != want.Liner || got.Trigger != want.Trigger {
+		t.Errorf("event file gives %d sensors of %q, water %+v, liner %+v, trigger %+v; want %d of %q, %+v, %+v, %+v",
+			got.Detector.NumSensors(), got.Sensor.Name, got.Water.Config(), got.Liner, got.Trigger,
+			want.Detector.NumSensors(), want.Sensor.Name, want.Water.Config(), want.Liner, want.Trigger)
 	}
 }
