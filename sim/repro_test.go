@@ -21,8 +21,8 @@ func reproGun(t *testing.T, s *Simulator) gen.Generator {
 	t.Helper()
 	g, err := gen.NewGun(gen.GunConfig{
 		Particles: []gen.GunParticle{
-			{PDG: phys.Electron, Energy: gen.UniformEnergy(5, 15), Direction: gen.Isotropic()},
-			{PDG: phys.MuonMinus, Energy: gen.FixedEnergy(120), Direction: gen.Isotropic()},
+			{PDG: phys.Electron, Ekin: gen.UniformEnergy(5, 15), Direction: gen.Isotropic()},
+			{PDG: phys.MuonMinus, Ekin: gen.FixedEnergy(120), Direction: gen.Isotropic()},
 		},
 		Vertex: gen.InFiducial(s.Config().Detector.Tank(), 100),
 	})

@@ -162,7 +162,7 @@ func TestRunCancelAndErrors(t *testing.T) {
 func TestRunNeutrinoTruth(t *testing.T) {
 	// A quasi-elastic nu_mu run keeps the generator's neutrino truth with
 	// each event, and the charged lepton is the primary.
-	qe, err := gen.NewQE(gen.QEConfig{Neutrino: phys.MuonNeu, Energy: gen.FixedEnergy(600),
+	qe, err := gen.NewQE(gen.QEConfig{Neutrino: phys.MuonNeu, Etot: gen.FixedEnergy(600),
 		Beam: r3.Vector{X: 1}, Vertex: gen.AtPoint(r3.Vector{})})
 	if err != nil {
 		t.Fatal(err)

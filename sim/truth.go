@@ -47,15 +47,21 @@ func InteractionTruth(g gen.Generator, info gen.Info) event.Interaction {
 	}
 	in := event.Interaction{
 		PDG:     info.Neutrino,
-		Etot:    info.NeutrinoEnergy,
+		Etot:    info.NeutrinoEtot,
 		Dir:     info.NeutrinoDir,
 		Target:  info.Target,
 		Q2:      info.Q2,
-		Weight:  1, // the generators of gen.Info make unweighted events
+		Weight:  1, // unweighted unless the file gives a weight
 		Nucleon: info.FinalNucleon,
 	}
-	if info.Reaction == gen.CCQE {
+	switch {
+	case info.Process != 0:
+		in.Process = info.Process
+	case info.Reaction == gen.CCQE:
 		in.Process = processCCQE
+	}
+	if info.HasWeight {
+		in.Weight = info.Weight
 	}
 	if fromFile {
 		in.FromFile, in.SourceEvent = true, int64(info.SourceEvent)

@@ -20,13 +20,13 @@ import (
 	"errors"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 	"os/signal"
 	"runtime"
 	"time"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
@@ -100,7 +100,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) (int, error) 
 		return 0, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdg, Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: pdg, Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(cfg.Detector.Tank(), 100),
 	})
 	if err != nil {

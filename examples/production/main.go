@@ -23,7 +23,6 @@ import (
 	"syscall"
 
 	"github.com/conelight/conelight/examples/internal/cli"
-
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
@@ -122,7 +121,7 @@ func run(ctx context.Context, o options) (int, error) {
 		energy = gen.UniformEnergy(o.emin, o.emax)
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: pdg, Energy: energy, Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: pdg, Ekin: energy, Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(cfg.Detector.Tank(), o.wall),
 	})
 	if err != nil {

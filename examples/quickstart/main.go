@@ -4,11 +4,12 @@ package main
 
 import (
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"log"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
@@ -33,7 +34,7 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -44,11 +45,11 @@ func main() {
 			log.Fatal(err)
 		}
 		r, err := f.Fit(ev.Hits)
-		if err != nil || !r.Converged {
+		if err != nil || r.Status != fit.Converged {
 			fmt.Println("event", n, "not reconstructed:", err, r.Reason)
 			continue
 		}
 		fmt.Printf("event %d: %3d hits, vertex off by %5.1f cm, direction off by %4.1f deg, E = %4.1f +- %3.1f MeV\n",
-			n, len(ev.Hits), r.Vertex.Sub(start).Norm(), r.Dir.Angle(r3.Vector{Z: 1}).Degrees(), r.Energy, r.EnergyErr)
+			n, len(ev.Hits), r.Track.Vertex.Sub(start).Norm(), r.Track.Dir.Angle(r3.Vector{Z: 1}).Degrees(), r.Track.Ekin, r.Errors.Ekin)
 	}
 }

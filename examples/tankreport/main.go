@@ -11,10 +11,10 @@ package main
 import (
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"io"
 	"os"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 )

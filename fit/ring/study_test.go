@@ -180,7 +180,7 @@ func simulateContained(t testing.TB, s *sim.Simulator, rng *rand.Rand, pt point,
 				return nil
 			}
 			prim = ps[0]
-			tt.enu, tt.beam = info.NeutrinoEnergy, info.NeutrinoDir
+			tt.enu, tt.beam = info.NeutrinoEtot, info.NeutrinoDir
 		} else {
 			prim = phys.Particle{PDG: pt.pdg, Pos: vertices.Sample(rng), Dir: gen.Isotropic().Sample(rng),
 				Ekin: phys.KineticFromMomentum(pt.p, mass)}

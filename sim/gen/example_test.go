@@ -16,8 +16,8 @@ import (
 func ExampleGun() {
 	g, err := gen.NewGun(gen.GunConfig{
 		Particles: []gen.GunParticle{
-			{PDG: phys.MuonMinus, Energy: gen.UniformEnergy(200, 1000), Direction: gen.InCone(r3.Vector{Z: 1}, 0.2)},
-			{PDG: phys.Gamma, Energy: gen.FixedEnergy(15), Direction: gen.Isotropic()},
+			{PDG: phys.MuonMinus, Ekin: gen.UniformEnergy(200, 1000), Direction: gen.InCone(r3.Vector{Z: 1}, 0.2)},
+			{PDG: phys.Gamma, Ekin: gen.FixedEnergy(15), Direction: gen.Isotropic()},
 		},
 		Vertex: gen.InFiducial(geom.DemoTank(), 200),
 	})
@@ -45,7 +45,7 @@ func ExampleGun() {
 func ExampleQE() {
 	q, err := gen.NewQE(gen.QEConfig{
 		Neutrino: phys.MuonNeu,
-		Energy:   gen.FixedEnergy(800),
+		Etot:     gen.FixedEnergy(800),
 		Beam:     r3.Vector{X: 1},
 		Vertex:   gen.AtPoint(r3.Vector{}),
 		Target:   gen.Water,
@@ -64,7 +64,7 @@ func ExampleQE() {
 	fmt.Printf("%v on %d: Q2 = %.3f GeV^2, |p_F| = %.0f MeV/c\n", info.Reaction, info.Target, info.Q2/1e6, info.FermiMomentum.Norm())
 	fmt.Printf("mu-: Ekin %.1f MeV, cos theta %.3f; p: Ekin %.1f MeV\n", mu.Ekin, mu.Dir.X, info.FinalNucleon.Ekin)
 	eqe, _ := phys.QuasiElasticEnergyOf(mu.PDG, mu.Ekin, mu.Dir.X, phys.OxygenBindingEnergy)
-	fmt.Printf("quasi-elastic energy %.0f MeV (true %.0f MeV)\n", eqe, info.NeutrinoEnergy)
+	fmt.Printf("quasi-elastic energy %.0f MeV (true %.0f MeV)\n", eqe, info.NeutrinoEtot)
 	// Output:
 	// CCQE on 1000080160: Q2 = 0.269 GeV^2, |p_F| = 167 MeV/c
 	// mu-: Ekin 417.1 MeV, cos theta 0.679; p: Ekin 266.2 MeV

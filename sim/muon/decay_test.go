@@ -4,6 +4,8 @@ import (
 	"math"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/sim/phys"
@@ -45,15 +47,16 @@ func TestBoostedDecayInvariant(t *testing.T) {
 	// The laboratory electron boosted back into the muon rest frame must
 	// have the rest-frame energy drawn with the same random numbers
 	// (Lorentz invariance, independent inverse boost).
+	p := newWater(t, Config{})
 	for _, ekin := range []float64{10, 300, 5000} {
-		k := muonKinematics(ekin)
+		k := p.Kinematics(ekin)
 		dir := r3.Vector{X: 0.6, Y: 0, Z: 0.8}
-		eLab, dLab := michelElectron(k, dir, newRNG(23, 24))
-		eRest, _ := michelElectron(muonKinematics(0), dir, newRNG(23, 24))
+		eLab, dLab := MichelElectron(k, dir, newRNG(23, 24))
+		eRest, _ := MichelElectron(p.Kinematics(0), dir, newRNG(23, 24))
 		const me = phys.ElectronMass
 		etot := eLab + me
 		pLab := math.Sqrt(etot*etot - me*me)
-		gamma, bg := k.e/phys.MuonMass, k.p/phys.MuonMass
+		gamma, bg := k.Etot()/phys.MuonMass, k.Momentum()/phys.MuonMass
 		eStar := gamma*etot - bg*pLab*dLab.Dot(dir)
 		if math.Abs(eStar-(eRest+me)) > 1e-9*eStar {
 			t.Errorf("T=%g: rest-frame energy %g after inverse boost, drawn %g", ekin, eStar, eRest+me)
@@ -127,36 +130,50 @@ func TestDecayAtRest(t *testing.T) {
 	}
 }
 
-func TestDecayInFlight(t *testing.T) {
-	// With energy loss off (test hook) a 1 GeV muon keeps beta gamma, so
-	// its decay length is exponential with mean beta gamma c tau (standard
-	// error mean/sqrt(n)), and the boosted electron's mean energy is
-	// gamma <E*> with <E*> = 0.7 W for the Michel spectrum (the isotropic
-	// rest-frame momentum averages to zero along the boost).
-	p := newWater(t, Config{NoScattering: true, MaxStep: 1e4})
-	p.frozen = true
+func TestDecayInFlightElectron(t *testing.T) {
+	// A 1 GeV muon's boosted decay electron has mean energy gamma <E*>
+	// with <E*> = 0.7 W for the Michel spectrum (the isotropic rest-frame
+	// momentum averages to zero along the boost); standard error from the
+	// sample. The decay length of the transport is checked in sim/heavy.
+	p := newWater(t, Config{})
 	rng := newRNG(27, 28)
 	const n = 4000
-	k := muonKinematics(1000)
-	lengths := make([]float64, n)
+	k := p.Kinematics(1000)
 	energies := make([]float64, n)
-	for i := range lengths {
-		tr, err := p.Track(muonAlongZ(phys.MuonPlus, 1000), ball{1e9}, rng, &countSink{})
+	for i := range energies {
+		e, _ := MichelElectron(k, r3.Vector{Z: 1}, rng)
+		energies[i] = e + phys.ElectronMass
+	}
+	wantE := k.Etot() / phys.MuonMass * 0.7 * MichelEndpoint
+	if m, sd := meanSD(energies); math.Abs(m-wantE) > 5*sd/math.Sqrt(n) {
+		t.Errorf("mean decay-electron energy %.2f MeV, want %.2f", m, wantE)
+	}
+}
+
+func TestDecayInFlight(t *testing.T) {
+	// Muons of 300 MeV decaying in flight in a large sphere: the decay
+	// product is an electron (mu-) at the end point and time of the track.
+	p := newWater(t, Config{})
+	rng := newRNG(29, 30)
+	var seen int
+	for i := 0; i < 3000 && seen < 5; i++ {
+		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 300), ball{1e4}, rng, &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
 		if tr.Fate != phys.DecayedInFlight {
-			t.Fatalf("fate %v", tr.Fate)
+			continue
 		}
-		lengths[i] = tr.TrackLength
-		energies[i] = tr.Decay.Ekin + phys.ElectronMass
+		seen++
+		if tr.Decay.PDG != phys.Electron || tr.Decay.Pos != tr.EndPos || tr.Decay.Time != tr.EndTime || tr.DecayTime != tr.EndTime {
+			t.Fatalf("decay in flight %+v", tr)
+		}
 	}
-	want := k.p / phys.MuonMass * phys.SpeedOfLight * phys.MuonLifetime
-	if m, _ := meanSD(lengths); math.Abs(m/want-1) > 5/math.Sqrt(n) {
-		t.Errorf("mean decay length %.4g cm, want %.4g", m, want)
+	if seen == 0 {
+		t.Error("no decay in flight among 3000 muons of 300 MeV")
 	}
-	wantE := k.e / phys.MuonMass * 0.7 * MichelEndpoint
-	if m, sd := meanSD(energies); math.Abs(m-wantE) > 5*sd/math.Sqrt(n) {
-		t.Errorf("mean decay-electron energy %.2f MeV, want %.2f", m, wantE)
-	}
+}
+
+func chiSquareCritical(dof int) float64 {
+	return distuv.ChiSquared{K: float64(dof)}.Quantile(1 - 1e-4)
 }

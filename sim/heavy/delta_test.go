@@ -1,4 +1,4 @@
-package muon
+package heavy
 
 import (
 	"math"
@@ -23,7 +23,7 @@ func TestDeltaSpectrum(t *testing.T) {
 	p := newWater(t, Config{})
 	rng := newRNG(11, 12)
 	for _, ekin := range []float64{300, 1e4} {
-		k := muonKinematics(ekin)
+		k := p.kin(ekin)
 		const cut, nb, n = 1.0, 30, 100000
 		edges := make([]float64, nb+1)
 		for i := range edges {
@@ -52,9 +52,10 @@ func TestDeltaKinematics(t *testing.T) {
 	// Review) must conserve momentum: with the muon's new momentum from
 	// vector conservation, its magnitude equals sqrt((E-T)^2 - m^2) from
 	// energy conservation (independent two-body relation).
+	p := newWater(t, Config{})
 	rng := newRNG(13, 14)
 	for _, ekin := range []float64{60, 200, 1000, 1e4, 1e6} {
-		k := muonKinematics(ekin)
+		k := p.kin(ekin)
 		dir := phys.Deflect(muonAlongZ(13, 0).Dir, 0.3, 1)
 		for i := 0; i < 200; i++ {
 			te, eDir, muDir := emitDelta(k, dir, 0.5, rng)

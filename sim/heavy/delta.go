@@ -1,11 +1,11 @@
-package muon
+package heavy
 
 import (
-	"gonum.org/v1/gonum/stat/distuv"
 	"math"
 	"math/rand/v2"
 
 	"github.com/golang/geo/r3"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -16,7 +16,7 @@ import (
 //	d sigma/dT = 2 pi r_e^2 m_e c^2 z^2 (Z/A) N_A rho / beta^2 / T^2 [1 - beta^2 T/W + T^2/(2E^2)]
 //
 // (PDG Review, "Passage of particles through matter", delta rays; E the
-// muon's total energy, W = W_max): T from 1/T^2 on [tcut, W] by inversion,
+// particle's total energy, W = W_max): T from 1/T^2 on [tcut, W] by inversion,
 // kept with probability equal to the bracket. The bracket is convex in T,
 // 1 at T = 0 and 1 - beta^2 + W^2/(2E^2) <= 1 at T = W (W < E), so it never
 // exceeds 1 and the rejection is exact. Requires k.tmax > tcut.
@@ -39,7 +39,7 @@ func deltaCosTheta(k kinematics, t float64) float64 {
 	return math.Min(1, t/pe*(k.e+phys.ElectronMass)/k.p)
 }
 
-// emitDelta samples a delta ray for a muon of kinematics k moving along
+// emitDelta samples a delta ray for a particle of kinematics k moving along
 // dir and returns the electron's kinetic energy and direction and the
 // muon's new direction from momentum conservation (its new kinetic energy
 // is k.ekin - T by energy conservation).

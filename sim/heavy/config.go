@@ -1,4 +1,4 @@
-package muon
+package heavy
 
 import (
 	"fmt"
@@ -12,21 +12,21 @@ type Config struct {
 	// (delta rays) are produced explicitly; transfers below it are part of
 	// the continuous restricted loss. Default 1 MeV (common practice: a
 	// delta ray below ~1 MeV travels a few mm and gives little light next to
-	// its parent muon). Valid range [0.01, 1000] MeV.
+	// its parent track). Valid range [0.01, 1000] MeV.
 	DeltaCut float64
 	// MaxFracLoss is the largest mean fractional kinetic-energy loss in one
-	// step while the muon is above Cherenkov threshold. Default 0.01; valid
+	// step while the particle is above Cherenkov threshold. Default 0.01; valid
 	// (0, 0.2].
 	MaxFracLoss float64
-	// MaxFracLossBelowThreshold is the same limit once the muon is below
+	// MaxFracLossBelowThreshold is the same limit once the particle is below
 	// Cherenkov threshold, where only its stopping point and time matter
 	// (both come from the exact range table, not from the step size).
 	// Default 0.1; valid (0, 0.5].
 	MaxFracLossBelowThreshold float64
 	// MaxStep is the longest step in cm. Default 5 cm; valid (0, 1e4].
 	MaxStep float64
-	// LowCut is the kinetic energy (MeV) below which the muon is stopped:
-	// the rest is deposited and it decays or is captured at rest.
+	// LowCut is the kinetic energy (MeV) below which the particle is stopped:
+	// the rest is deposited and the caller decides what happens at rest.
 	// Default 1 MeV; valid [1, 50] MeV (the Bethe formula used for the
 	// tables holds down to beta*gamma ~ 0.1, T ~ 0.5 MeV).
 	LowCut float64
@@ -105,6 +105,11 @@ func (c Config) Validate() error {
 // checkRange returns an error naming the value unless lo <= v <= hi (lo < v
 // when openLo); NaN and infinities always fail.
 func checkRange(name string, v, lo, hi float64, openLo bool) error {
+	return checkRangeIn("heavy", name, v, lo, hi, openLo)
+}
+
+// checkRangeIn is checkRange with the message prefixed by pkg.
+func checkRangeIn(pkg, name string, v, lo, hi float64, openLo bool) error {
 	bad := math.IsNaN(v) || math.IsInf(v, 0) || v > hi || v < lo || (openLo && v == lo)
 	if !bad {
 		return nil
@@ -113,5 +118,5 @@ func checkRange(name string, v, lo, hi float64, openLo bool) error {
 	if openLo {
 		lb = "("
 	}
-	return fmt.Errorf("muon: %s = %g must be finite and in %s%g, %g]", name, v, lb, lo, hi)
+	return fmt.Errorf("%s: %s = %g must be finite and in %s%g, %g]", pkg, name, v, lb, lo, hi)
 }

@@ -1,4 +1,4 @@
-package muon
+package heavy
 
 import (
 	"math"
@@ -90,7 +90,7 @@ func TestRestrictedPlusDeltasIsTotal(t *testing.T) {
 	// deltas above the cut, and the delta cross-section its integral.
 	p := newWater(t, Config{DeltaCut: 0.5})
 	for _, ekin := range []float64{100, 1000, 1e4, 1e5} {
-		k := muonKinematics(ekin)
+		k := p.kin(ekin)
 		for _, tcut := range []float64{0.5, 2, 10} {
 			if tcut >= k.tmax {
 				continue
@@ -144,7 +144,7 @@ func TestSigmaBound(t *testing.T) {
 			b := p.sigmaBound(thi, -math.Log(0.98))
 			for j := 0; j <= 20; j++ {
 				e := tlo + (thi-tlo)*float64(j)/20
-				if s := p.deltaSigmaOf(muonKinematics(e), cut); s > b {
+				if s := p.deltaSigmaOf(p.kin(e), cut); s > b {
 					t.Fatalf("cut %g: sigma(%g) = %g above bound %g on [%g, %g]", cut, e, s, b, tlo, thi)
 				}
 			}
