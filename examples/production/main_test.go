@@ -5,6 +5,8 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"os"
+	"os/exec"
 	"path/filepath"
 	"reflect"
 	"slices"
@@ -181,5 +183,75 @@ func TestBatchTemplates(t *testing.T) {
 	}
 	if _, err := batchScript("pbs", fs, 3); err == nil || !strings.Contains(err.Error(), `-batch = "pbs"`) {
 		t.Errorf("unknown batch system: error %v", err)
+	}
+}
+
+// TestSlurmScriptRuns runs the Slurm script with bash, with stand-ins for
+// sbatch and the production program: outside a task it submits the array
+// and the merge that waits for it; as task K it removes a stale temporary
+// file and runs shard K into part-K.root.
+func TestSlurmScriptRuns(t *testing.T) {
+	bash, err := exec.LookPath("bash")
+	if err != nil {
+		t.Skip("no bash")
+	}
+	var o options
+	fs := flag.NewFlagSet("production", flag.ContinueOnError)
+	defineFlags(fs, &o)
+	if _, err := cli.ParseArgs(fs, usage, []string{"-count", "50", "-seed", "3", "-shards", "4", "-batch", "slurm"}); err != nil {
+		t.Fatal(err)
+	}
+	script, err := batchScript(o.batch, fs, o.shards)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir, bin := t.TempDir(), t.TempDir()
+	write := func(path, text string) {
+		if err := os.WriteFile(path, []byte(text), 0o755); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write(filepath.Join(dir, "production.slurm"), script)
+	write(filepath.Join(bin, "sbatch"), "#!/bin/sh\necho \"$@\" >> sbatch.log\necho 4242\n")
+	write(filepath.Join(dir, "conelight-production"), "#!/bin/sh\nfor a in \"$@\"; do echo \"$a\"; done > args.txt\n")
+	runScript := func(env ...string) {
+		cmd := exec.Command(bash, "production.slurm")
+		cmd.Dir = dir
+		cmd.Env = append(os.Environ(), append(env, "PATH="+bin+string(os.PathListSeparator)+os.Getenv("PATH"))...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("bash production.slurm %v: %v\n%s", env, err, out)
+		}
+	}
+
+	runScript("SLURM_ARRAY_TASK_ID=")
+	log, err := os.ReadFile(filepath.Join(dir, "sbatch.log"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "--parsable production.slurm\n--dependency=afterok:4242 --job-name=conelight-merge --output=merge.log --wrap ./conelight-mergeshards -out run.root part-*.root\n"
+	if string(log) != want {
+		t.Errorf("submission calls sbatch with\n%s\nwant\n%s", log, want)
+	}
+
+	for k := range 4 {
+		stale := filepath.Join(dir, fmt.Sprintf(".part-%d.root.tmp", k))
+		write(stale, "left by a killed attempt")
+		runScript(fmt.Sprintf("SLURM_ARRAY_TASK_ID=%d", k))
+		if _, err := os.Stat(stale); !os.IsNotExist(err) {
+			t.Errorf("task %d left the stale temporary file", k)
+		}
+		args, err := os.ReadFile(filepath.Join(dir, "args.txt"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var j options
+		fs := flag.NewFlagSet("production", flag.ContinueOnError)
+		defineFlags(fs, &j)
+		if _, err := cli.ParseArgs(fs, usage, strings.Fields(string(args))); err != nil {
+			t.Fatal(err)
+		}
+		if j.shard != k || j.shards != 4 || j.out != fmt.Sprintf("part-%d.root", k) || j.count != 50 || j.seed != 3 || j.batch != "" {
+			t.Errorf("task %d runs %+v", k, j)
+		}
 	}
 }
