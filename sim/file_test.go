@@ -87,6 +87,17 @@ func TestShardFilesMergeToTheRun(t *testing.T) {
 	if !reflect.DeepEqual(ra.Detector().Sensors(), s.Config().Detector.Sensors()) || !reflect.DeepEqual(ra.Sensor(), s.Config().Sensor) {
 		t.Error("the file does not give back the detector and sensor it was simulated with")
 	}
+	// Merged under the same name, the shards give the unsplit run's bytes.
+	wholeBytes, err := os.ReadFile(whole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := event.Merge(whole, shards...); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := os.ReadFile(whole); err != nil || !bytes.Equal(b, wholeBytes) {
+		t.Errorf("shards merged into %s differ in bytes from the unsplit run (%v)", whole, err)
+	}
 }
 
 func TestWriteRunCancelled(t *testing.T) {
