@@ -9,7 +9,10 @@
 //  1. the generator draws the primaries from the event's random stream
 //     EventStream(Seed, number);
 //  2. sim/transport follows them and all their descendants (sim/em for
-//     electrons, positrons and photons, sim/muon for muons);
+//     electrons, positrons and photons, sim/muon for muons, sim/hadron
+//     for charged and neutral pions and protons, sim/neutron for neutrons
+//     to their capture); neutrinos are not followed (fate NotFollowed) and
+//     an unknown PDG code is an error;
 //  3. every charged step above threshold emits its Cherenkov photons
 //     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
 //     each photon is traced at once to the wall (sim/photon), so no event

@@ -233,7 +233,7 @@ func TestWriteRejectsBadEvents(t *testing.T) {
 		{"Hits[0].Charge = +Inf", func(e *Event) { e.Hits = []pmt.Hit{{Charge: inf()}} }},
 		{"Number = 99 outside the run's range [100, 109]", func(e *Event) { e.Number = 99 }},
 		{"Number = 110 outside", func(e *Event) { e.Number = 110 }},
-		{"Truth.Tracks[0].Fate = 7 is not a known fate", func(e *Event) { e.Truth.Tracks = []Track{{Fate: 7}} }},
+		{"Truth.Tracks[0].Fate = 99 is not a known fate", func(e *Event) { e.Truth.Tracks = []Track{{Fate: 99}} }},
 		{"Truth.Tracks[0].Secondaries = -2", func(e *Event) { e.Truth.Tracks = []Track{{Secondaries: -2}} }},
 		{"Truth.Primaries[0].Dir.Y = NaN", func(e *Event) { e.Truth.Primaries = []phys.Particle{{Dir: vec(0, nan(), 0)}} }},
 		{"Truth.Primaries[0].PDG = 4294967296 does not fit", func(e *Event) { e.Truth.Primaries = []phys.Particle{{PDG: 1 << 32}} }},
