@@ -40,7 +40,11 @@
 // Count events are cut into n contiguous blocks as equal as possible and
 // shard k makes block k (RunOptions.ShardRange gives its first event
 // number and length); sim/event.Merge joins the shard files. Events stream to the caller in number order, with at most
-// a few per worker in memory.
+// a few per worker in memory. An event with nothing to track (a neutral-
+// current event of a generator file) is counted and reported, not an
+// error; a bad event (a malformed event of a file) stops the run or, with
+// RunOptions.BadEvents = SkipBad, is skipped, counted and reported
+// (RunOptions.OnBad); WriteRun stores both in the run record.
 //
 // # Which water
 //
