@@ -432,17 +432,17 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	if isElectromagnetic(o.pdg()) {
 		want = ring.Electron
 	}
-	rf, err := ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true})
+	rf, err := ring.New(ring.Config{Setup: cfg.Setup, SkipUncertainties: true})
 	if err != nil {
 		return err
 	}
-	if lo, hi := rf.EnergyRange(want); o.energy < lo || o.energy > hi {
+	if lo, hi := rf.EkinRange(want); o.energy < lo || o.energy > hi {
 		return fmt.Errorf("-energy = %g MeV is outside the ring fitter's %s tables (%g to %g MeV)", o.energy, want, lo, hi)
 	}
 	recs := make([]ring.Reconstruction, len(evs))
 	errs := make([]error, len(evs))
-	if err := parallel.Each(ctx, len(evs), rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(evs[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(evs[i].Hits, ring.Window{})
 	}); err != nil {
 		return err
 	}
@@ -460,7 +460,7 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 		if want == ring.Muon {
 			r = &recs[i].Muon
 		}
-		if r.Converged {
+		if r.Status == fit.Converged {
 			cos := math.Min(1/(n*phys.Beta(r.Track.Ekin, want.Mass())), 0.999)
 			add(evs[i], display.Track{Vertex: r.Track.Vertex, Dir: r.Track.Dir, CosCherenkov: cos, Label: "ring fit (" + want.String() + ")"}, r.Track.Ekin)
 		}

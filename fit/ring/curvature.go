@@ -28,7 +28,7 @@ type curvature struct {
 // in all for the 7 parameters (the centre, 12 for the diagonal, 30 for the
 // 15 crossings without the time), against 99 for gonum's
 // fd.Hessian.
-func (w *Workspace) curvatureAt(h Hypothesis, fr *frame, step float64) *curvature {
+func (w *workspace) curvatureAt(h Hypothesis, fr *frame, step float64) *curvature {
 	n := w.f.n
 	c := &curvature{}
 	c.hess = *mat.NewSymDense(NumParams, nil)

@@ -104,9 +104,10 @@
 // When the likelihood ratio is not decisive (below 200) the losing
 // hypothesis is refitted from the winner's track and the better of its two
 // fits kept. Uncertainties are computed for the hypothesis with the better
-// likelihood. A Result is marked Converged only inside the tank and the
-// table energy range, and then holds finite numbers only; otherwise
-// Reason says why. ErrorsValid is false when the numerical Hessian is not
+// likelihood. A Result has Status fit.Converged only inside the tank and
+// the table energy range (Fitter.EkinRange), and then holds finite numbers
+// only; a minimum on the wall or at an end of the range is fit.AtLimit,
+// and Reason says why for any status but fit.Converged. ErrorsValid is false when the numerical Hessian is not
 // positive definite (ErrorsNote), which leaves the fit and the particle
 // identification standing.
 //
@@ -183,8 +184,8 @@
 //
 // # Concurrency
 //
-// A Fitter is immutable after New and safe for concurrent use; give each
-// goroutine its own Workspace (NewWorkspace), which holds the per-sensor
-// predictions and the event's hits. The likelihood evaluation does not
+// A Fitter is immutable after New and safe for concurrent use by any
+// number of goroutines; per-call scratch is pooled (the per-sensor
+// predictions and the event's hits). The likelihood evaluation does not
 // allocate.
 package ring

@@ -6,6 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/ring"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
@@ -29,17 +30,17 @@ func Example() {
 		log.Fatal(err)
 	}
 	c := s.Config()
-	f, err := ring.New(ring.Config{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner, SkipUncertainties: true})
+	f, err := ring.New(ring.Config{Setup: c.Setup, SkipUncertainties: true})
 	if err != nil {
 		log.Fatal(err)
 	}
-	rec, err := f.NewWorkspace().Fit(ev.Hits, ring.Window{})
+	rec, err := f.Fit(ev.Hits, ring.Window{})
 	if err != nil {
 		log.Fatal(err)
 	}
 	best := ring.PIDCut{}.Best(&rec)
 	fmt.Println("identified as:", best.Hypothesis)
-	fmt.Println("converged:", best.Converged)
+	fmt.Println("converged:", best.Status == fit.Converged)
 	fmt.Println("momentum within 10%:", best.Momentum > 540 && best.Momentum < 660)
 	fmt.Println("vertex within 50 cm:", best.Track.Vertex.Sub(mu.Pos).Norm() < 50)
 	// Output:

@@ -10,6 +10,7 @@ import (
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -20,47 +21,42 @@ import (
 // Result.Cov.
 const NumParams = 7
 
-// Errors are one-standard-deviation uncertainties.
-type Errors struct {
-	Vertex    r3.Vector // per coordinate, cm
-	Time      float64   // ns
-	Direction float64   // rad: sqrt of the summed variances of the two angles
-	Ekin      float64   // MeV
-	Momentum  float64   // MeV/c
-}
-
 // Result is the fit of one hypothesis.
 type Result struct {
 	Hypothesis Hypothesis
-	Track      Track
+	Track      fit.Track
 	Momentum   float64 // MeV/c
 	// NLL is the negative log likelihood at the fitted track.
 	NLL float64
-	// Converged is true when the minimizer converged inside the tank and
-	// the energy range of the tables; Reason says why not otherwise.
-	// A converged result holds only finite numbers.
-	Converged bool
-	Reason    string
+	// Status is fit.Converged when the minimizer converged inside the
+	// tank and the energy range of the tables (EkinRange); a converged
+	// result holds only finite numbers. fit.AtLimit: the minimum lies on
+	// the tank wall or at an end of the energy range; fit.NotConverged:
+	// the minimizer stopped without converging. Reason says why for any
+	// other status.
+	Status fit.Status
+	Reason string
 	// ErrorsValid says that Errors, Cov and CramerRao hold the
 	// uncertainties; when they were wanted but could not be had (the
 	// numerical Hessian not positive definite) ErrorsNote says why.
 	ErrorsValid bool
 	ErrorsNote  string
 	// Errors are from the curvature of the likelihood (the inverse of the
-	// numerical Hessian); Cov is that covariance matrix in the parameter
-	// order of NumParams. Fit computes them for the hypothesis with the
+	// numerical Hessian), the two angles along the axes of phys.Basis of
+	// Track.Dir; Cov is that covariance matrix in the parameter order of
+	// NumParams. Fit computes them for the hypothesis with the
 	// better likelihood only (FitFrom for its one hypothesis); they are
 	// zero for the other, when Config.SkipUncertainties is set or when the
 	// fit failed. They are statistical only: see the package
 	// documentation on pulls.
-	Errors Errors
+	Errors fit.Errors
 	Cov    [NumParams][NumParams]float64
 	// CramerRao is the Cramer-Rao bound at the fitted track: the
 	// inverse expected Fisher information of an ideal sensor that counts
 	// photoelectrons without charge smearing (Poisson) and measures the
 	// first-photon time with the predicted time spread. No unbiased fit
 	// of this model can do better.
-	CramerRao   Errors
+	CramerRao   fit.Errors
 	Evaluations int
 	// Outside is the fraction of the fitted track's light that the
 	// emission profile puts beyond the tank wall along the fitted
@@ -89,7 +85,7 @@ type Reconstruction struct {
 	LLR float64
 	// Seed is the common start: point-fit vertex and time, ring
 	// direction (its energy is the electron seed).
-	Seed Track
+	Seed fit.Track
 	// HitsUsed counts the hits in the likelihood (first hit per live
 	// sensor, prompt window); HitsDropped the others.
 	HitsUsed, HitsDropped int
@@ -107,11 +103,11 @@ type PIDCut struct {
 // neither fit converged. When only one converged it is chosen.
 func (c PIDCut) PDG(r *Reconstruction) int {
 	switch {
-	case !r.Electron.Converged && !r.Muon.Converged:
+	case r.Electron.Status != fit.Converged && r.Muon.Status != fit.Converged:
 		return 0
-	case !r.Muon.Converged:
+	case r.Muon.Status != fit.Converged:
 		return phys.Electron
-	case !r.Electron.Converged:
+	case r.Electron.Status != fit.Converged:
 		return phys.MuonMinus
 	}
 	p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum) / 1000
@@ -137,14 +133,29 @@ const promptBefore = 60
 
 // Fit reconstructs an event from its hits: point seed, ring direction,
 // then the electron and the muon fits. win is the readout window (the
-// zero Window: the span of the hits). An event the fit cannot use (no
-// hits, bad hit fields) gives an error; a fit that fails to converge is
+// zero Window: the span of the hits). Hits must pass fit.CheckHits with
+// the sensor's integration gate. An event the fit cannot use (no hits,
+// bad hits) gives an error, with the reason and status (fit.NoHits,
+// fit.BadInput) in both results; a fit that fails to converge is
 // reported in its Result.
-func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
+func (f *Fitter) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
+	w := f.workspace()
+	defer f.pool.Put(w)
+	return w.fitEvent(hits, win)
+}
+
+// fitEvent is Fit on the workspace, which keeps the selected hits loaded.
+func (w *workspace) fitEvent(hits []pmt.Hit, win Window) (Reconstruction, error) {
+	fail := func(st fit.Status, err error) (Reconstruction, error) {
+		return Reconstruction{
+			Electron: Result{Hypothesis: Electron, Status: st, Reason: err.Error()},
+			Muon:     Result{Hypothesis: Muon, Status: st, Reason: err.Error()},
+		}, err
+	}
 	var rec Reconstruction
-	used, dropped, err := w.setEvent(hits, win)
+	used, dropped, st, err := w.setEvent(hits, win)
 	if err != nil {
-		return rec, err
+		return fail(st, err)
 	}
 	// The ring is the brightest burst of light: a muon's decay electron
 	// microseconds later, or a second interaction, in the same readout
@@ -160,11 +171,11 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	dropped += w.restrictLate(v, t0, w.f.lateResidual())
 	used = len(w.hits)
 	if used == 0 {
-		return rec, errors.New("ring: no hit left in the prompt window")
+		return fail(fit.NoHits, errors.New("ring: no hit left in the prompt window"))
 	}
 	rec.HitsUsed, rec.HitsDropped = used, dropped
 	u := w.directionSeed(v)
-	rec.Seed = Track{Vertex: v, Time: t0, Dir: u, Ekin: w.f.energyLo[Electron]}
+	rec.Seed = fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: w.f.energyLo[Electron]}
 	for _, h := range []Hypothesis{Electron, Muon} {
 		seed := w.trackSeed(h, v, t0, u)
 		if h == Electron {
@@ -185,15 +196,15 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 	// track by far more than their resolutions, the losing hypothesis may
 	// sit in a local minimum of its own seed: refit it from the winner's
 	// track and keep the better of its two fits.
-	if math.Abs(rec.LLR) < crossSeedLLR || !rec.Electron.Converged || !rec.Muon.Converged || disagree(&rec.Electron.Track, &rec.Muon.Track) {
+	if math.Abs(rec.LLR) < crossSeedLLR || rec.Electron.Status != fit.Converged || rec.Muon.Status != fit.Converged || disagree(&rec.Electron.Track, &rec.Muon.Track) {
 		from, to := &rec.Electron, &rec.Muon
-		if rec.LLR < 0 || !rec.Electron.Converged {
+		if rec.LLR < 0 || rec.Electron.Status != fit.Converged {
 			from, to = &rec.Muon, &rec.Electron
 		}
-		if from.Converged {
+		if from.Status == fit.Converged {
 			h := to.Hypothesis
 			seed := w.trackSeed(h, from.Track.Vertex, from.Track.Time, from.Track.Dir)
-			if alt := w.fitLoaded(h, seed); alt.Converged && (!to.Converged || alt.NLL < to.NLL) {
+			if alt := w.fitLoaded(h, seed); alt.Status == fit.Converged && (to.Status != fit.Converged || alt.NLL < to.NLL) {
 				alt.Evaluations += to.Evaluations
 				*to = alt
 			}
@@ -212,7 +223,7 @@ func (w *Workspace) Fit(hits []pmt.Hit, win Window) (Reconstruction, error) {
 // ring in a large tank, a poor seed). Their vertices are no guide: the
 // electron hypothesis starts the light of a shower a metre or two after
 // where the muon hypothesis starts a track.
-func disagree(a, b *Track) bool {
+func disagree(a, b *fit.Track) bool {
 	return a.Dir.Dot(b.Dir) < math.Cos(crossSeedAngle)
 }
 
@@ -229,17 +240,30 @@ const crossSeedLLR = 200
 
 // FitFrom fits one hypothesis from a given seed track, for callers with
 // their own seed. Hits are selected as by Fit, with the prompt window
-// about the seed time.
-func (w *Workspace) FitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed Track) (Result, error) {
-	if err := w.f.checkTrack(h, seed); err != nil {
-		return Result{Hypothesis: h}, err
+// about the seed time. A seed or event the fit cannot use gives an error,
+// with the reason and status in the Result.
+func (f *Fitter) FitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed fit.Track) (Result, error) {
+	w := f.workspace()
+	defer f.pool.Put(w)
+	return w.fitFrom(hits, win, h, seed)
+}
+
+// fitFrom is FitFrom on the workspace, which keeps the selected hits
+// loaded.
+func (w *workspace) fitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed fit.Track) (Result, error) {
+	f := w.f
+	fail := func(st fit.Status, err error) (Result, error) {
+		return Result{Hypothesis: h, Status: st, Reason: err.Error()}, err
 	}
-	if _, _, err := w.setEvent(hits, win); err != nil {
-		return Result{Hypothesis: h}, err
+	if err := f.checkTrack(h, seed); err != nil {
+		return fail(fit.BadInput, err)
 	}
-	w.restrict(seed.Time-promptBefore, seed.Time+w.f.promptAfter())
+	if _, _, st, err := w.setEvent(hits, win); err != nil {
+		return fail(st, err)
+	}
+	w.restrict(seed.Time-promptBefore, seed.Time+f.promptAfter())
 	if len(w.hits) == 0 {
-		return Result{Hypothesis: h}, errors.New("ring: no hit in the prompt window of the seed")
+		return fail(fit.NoHits, errors.New("ring: no hit in the prompt window of the seed"))
 	}
 	seed.Dir = seed.Dir.Normalize()
 	res := w.fitLoaded(h, seed)
@@ -255,7 +279,7 @@ func (f *Fitter) crossingTime() float64 {
 
 // brightestBurst returns the start of the time window of length width
 // that holds the most hit charge.
-func (w *Workspace) brightestBurst(width float64) float64 {
+func (w *workspace) brightestBurst(width float64) float64 {
 	type tq struct{ t, q float64 }
 	hs := make([]tq, 0, len(w.hits))
 	for _, i := range w.hits {
@@ -297,7 +321,7 @@ const muonLossPerCm = 2.0
 // late burst is dimmer than the ring (brightestBurst chose the ring), so
 // when the hits to drop are half the hits or hold half the charge, the
 // point seed is what is wrong, and nothing is dropped.
-func (w *Workspace) restrictLate(v r3.Vector, t0, late float64) int {
+func (w *workspace) restrictLate(v r3.Vector, t0, late float64) int {
 	isLate := func(i int) bool { return w.arrival(i, v)-t0 > late }
 	var all, lateQ float64
 	nLate := 0
@@ -323,15 +347,15 @@ func (f *Fitter) promptAfter() float64 {
 // trackSeed turns the point seed into a track seed for hypothesis h:
 // the energy that matches the total charge and the start point moved back
 // along the direction to the best of a few candidates.
-func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector) Track {
+func (w *workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector) fit.Track {
 	f := w.f
 	var q float64
 	for _, i := range w.hits {
 		q += w.hitQ[i]
 	}
 	q /= f.charge.m1
-	lo, hi := f.EnergyRange(h)
-	best := Track{Vertex: v, Time: t0, Dir: u, Ekin: math.Sqrt(lo * hi)}
+	lo, hi := f.EkinRange(h)
+	best := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: math.Sqrt(lo * hi)}
 	bestNLL := math.Inf(1)
 	// The point fit lands where most light comes from: near the shower
 	// maximum of an electron, mid-track for a muon. Try start points
@@ -340,7 +364,7 @@ func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector
 	// one update from the last energy suffices.
 	iters := 3
 	for _, back := range []float64{0, 0.33, 0.67, 1.0} {
-		tr := Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
+		tr := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
 		for it := 0; it < iters; it++ {
 			sh := back * w.lightLength(h, tr.Ekin)
 			tr.Vertex = v.Sub(u.Mul(sh))
@@ -372,7 +396,7 @@ func (w *Workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector
 	return best
 }
 
-func (w *Workspace) lightLength(h Hypothesis, e float64) float64 {
+func (w *workspace) lightLength(h Hypothesis, e float64) float64 {
 	w.f.species(h).interpolate(e, &w.prof)
 	return w.prof.light90
 }
@@ -391,19 +415,19 @@ const (
 // frame maps the minimizer's variables, offsets from a reference track
 // in scaled units, to tracks.
 type frame struct {
-	ref    Track
+	ref    fit.Track
 	e1, e2 r3.Vector
 	lo, hi float64
 }
 
-func newFrame(ref Track, lo, hi float64) frame {
+func newFrame(ref fit.Track, lo, hi float64) frame {
 	e1, e2 := phys.Basis(ref.Dir)
 	return frame{ref: ref, e1: e1, e2: e2, lo: lo, hi: hi}
 }
 
 // track returns the track at x and the squared excursion beyond the
 // energy range in log units (0 inside), clamping the energy.
-func (fr *frame) track(x []float64) (Track, float64) {
+func (fr *frame) track(x []float64) (fit.Track, float64) {
 	r := fr.ref
 	// x[0] moves the vertex along the reference direction and the time
 	// with it at c, x[1] and x[2] across it: the start of a track is
@@ -422,18 +446,18 @@ func (fr *frame) track(x []float64) (Track, float64) {
 		out = le - math.Log(fr.hi)
 		e = fr.hi
 	}
-	return Track{Vertex: v, Time: r.Time + l/phys.SpeedOfLight + scaleTime*x[3], Dir: u, Ekin: e}, out * out
+	return fit.Track{Vertex: v, Time: r.Time + l/phys.SpeedOfLight + scaleTime*x[3], Dir: u, Ekin: e}, out * out
 }
 
 // objective is the likelihood with smooth walls at the tank surface and
 // the ends of the energy range.
-func (w *Workspace) objective(h Hypothesis, fr *frame, x []float64) float64 {
+func (w *workspace) objective(h Hypothesis, fr *frame, x []float64) float64 {
 	return w.evalTerms(h, fr, x, nil)
 }
 
 // pullInside moves p onto the sensor surface's inside along the line to
 // the tank centre.
-func (w *Workspace) pullInside(p r3.Vector) r3.Vector {
+func (w *workspace) pullInside(p r3.Vector) r3.Vector {
 	f := w.f
 	s := 1.0
 	if rho := math.Hypot(p.X, p.Y); rho > f.tankRadius-0.5 {
@@ -445,11 +469,11 @@ func (w *Workspace) pullInside(p r3.Vector) r3.Vector {
 }
 
 // fitLoaded fits hypothesis h to the loaded event from seed.
-func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
+func (w *workspace) fitLoaded(h Hypothesis, seed fit.Track) Result {
 	f := w.f
-	res := Result{Hypothesis: h}
+	res := Result{Hypothesis: h, Status: fit.NotConverged}
 	w.evals = 0
-	lo, hi := f.EnergyRange(h)
+	lo, hi := f.EkinRange(h)
 	seed.Ekin = min(max(seed.Ekin, lo), hi)
 	if f.det.DistanceToWall(seed.Vertex) < 0 {
 		res.Reason = fmt.Sprintf("seed vertex %v outside the tank", seed.Vertex)
@@ -468,9 +492,11 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 		res.Reason = "likelihood not finite"
 		return res
 	case eOut > 0 || best.Ekin <= lo*(1+1e-6) || best.Ekin >= hi*(1-1e-6):
+		res.Status = fit.AtLimit
 		res.Reason = fmt.Sprintf("energy %g MeV at the edge of the table range %g-%g MeV", best.Ekin, lo, hi)
 		return res
 	case f.det.DistanceToWall(best.Vertex) < 0:
+		res.Status = fit.AtLimit
 		res.Reason = fmt.Sprintf("vertex %v outside the tank", best.Vertex)
 		return res
 	case !ok:
@@ -478,7 +504,7 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 		return res
 	}
 	res.NLL = w.nll(h, best)
-	res.Converged = true
+	res.Status = fit.Converged
 	res.Evaluations = w.evals
 	res.Outside = w.outsideFraction(h, best)
 	if res.Exiting() {
@@ -490,8 +516,8 @@ func (w *Workspace) fitLoaded(h Hypothesis, seed Track) Result {
 // rangeEnergy returns the kinetic energy of hypothesis h whose light
 // ends (90% of it emitted, light90) at distance l, by bisection in log
 // energy over the table range; the ends of the range when l lies beyond.
-func (w *Workspace) rangeEnergy(h Hypothesis, l float64) float64 {
-	lo, hi := w.f.EnergyRange(h)
+func (w *workspace) rangeEnergy(h Hypothesis, l float64) float64 {
+	lo, hi := w.f.EkinRange(h)
 	if w.lightLength(h, lo) >= l {
 		return lo
 	}
@@ -512,7 +538,7 @@ func (w *Workspace) rangeEnergy(h Hypothesis, l float64) float64 {
 
 // outsideFraction is the fraction of the light of track tr that its
 // emission profile puts beyond the wall along its direction.
-func (w *Workspace) outsideFraction(h Hypothesis, tr Track) float64 {
+func (w *workspace) outsideFraction(h Hypothesis, tr fit.Track) float64 {
 	p := &w.prof
 	w.f.species(h).interpolate(tr.Ekin, p)
 	lexit := w.f.det.DistanceAlong(tr.Vertex, tr.Dir)
@@ -536,14 +562,14 @@ func (w *Workspace) outsideFraction(h Hypothesis, tr Track) float64 {
 // addUncertainties fills the covariance, errors and Cramer-Rao bound of
 // a converged result of the loaded event, or marks it unconverged when
 // the Hessian is not positive definite.
-func (w *Workspace) addUncertainties(res *Result) {
-	if !res.Converged || w.f.cfg.SkipUncertainties {
+func (w *workspace) addUncertainties(res *Result) {
+	if res.Status != fit.Converged || w.f.cfg.SkipUncertainties {
 		return
 	}
 	f := w.f
 	h := res.Hypothesis
 	best := res.Track
-	lo, hi := f.EnergyRange(h)
+	lo, hi := f.EkinRange(h)
 	w.evals = res.Evaluations
 	// Hessian in the scaled variables about the fitted track.
 	fr := newFrame(best, lo, hi)
@@ -574,10 +600,11 @@ func (w *Workspace) addUncertainties(res *Result) {
 	res.CramerRao = w.cramerRao(h, best, curv)
 	res.Evaluations = w.evals
 	for _, v := range []float64{res.Errors.Vertex.X, res.Errors.Vertex.Y, res.Errors.Vertex.Z, res.Errors.Time,
-		res.Errors.Direction, res.Errors.Ekin, res.CramerRao.Direction, res.CramerRao.Ekin} {
+		res.Errors.Angle[0], res.Errors.Angle[1], res.Errors.Ekin,
+		res.CramerRao.Angle[0], res.CramerRao.Angle[1], res.CramerRao.Ekin} {
 		if !finite(v) {
 			res.ErrorsNote = "uncertainties not finite"
-			res.Errors, res.CramerRao, res.Cov = Errors{}, Errors{}, [NumParams][NumParams]float64{}
+			res.Errors, res.CramerRao, res.Cov = fit.Errors{}, fit.Errors{}, [NumParams][NumParams]float64{}
 			return
 		}
 	}
@@ -616,16 +643,16 @@ func (fr *frame) physCov(c *mat.SymDense) [NumParams][NumParams]float64 {
 	return out
 }
 
-func errorsFrom(cov *[NumParams][NumParams]float64, h Hypothesis, e float64) Errors {
+func errorsFrom(cov *[NumParams][NumParams]float64, h Hypothesis, e float64) fit.Errors {
 	sq := func(v float64) float64 { return math.Sqrt(math.Max(v, 0)) }
 	p := phys.Momentum(e, h.Mass())
 	dpde := (e + h.Mass()) / p
-	return Errors{
-		Vertex:    r3.Vector{X: sq(cov[0][0]), Y: sq(cov[1][1]), Z: sq(cov[2][2])},
-		Time:      sq(cov[3][3]),
-		Direction: sq(cov[4][4] + cov[5][5]),
-		Ekin:      sq(cov[6][6]),
-		Momentum:  sq(cov[6][6]) * dpde,
+	return fit.Errors{
+		Vertex:   r3.Vector{X: sq(cov[0][0]), Y: sq(cov[1][1]), Z: sq(cov[2][2])},
+		Time:     sq(cov[3][3]),
+		Angle:    [2]float64{sq(cov[4][4]), sq(cov[5][5])},
+		Ekin:     sq(cov[6][6]),
+		Momentum: sq(cov[6][6]) * dpde,
 	}
 }
 
@@ -635,7 +662,7 @@ func errorsFrom(cov *[NumParams][NumParams]float64, h Hypothesis, e float64) Err
 // its hit probability, (dt_i/dtheta)^T (dt_i/dtheta) / sigma_i^2 of its
 // time, with the derivatives of the predictions that came with the
 // Hessian c.
-func (w *Workspace) cramerRao(h Hypothesis, tr Track, c *curvature) Errors {
+func (w *workspace) cramerRao(h Hypothesis, tr fit.Track, c *curvature) fit.Errors {
 	f := w.f
 	fr := newFrame(tr, f.energyLo[h], f.energyHi[h])
 	n := f.n
@@ -660,11 +687,11 @@ func (w *Workspace) cramerRao(h Hypothesis, tr Track, c *curvature) Errors {
 	}
 	var ch mat.Cholesky
 	if !ch.Factorize(info) {
-		return Errors{}
+		return fit.Errors{}
 	}
 	var cov mat.SymDense
 	if ch.InverseTo(&cov) != nil {
-		return Errors{}
+		return fit.Errors{}
 	}
 	pc := fr.physCov(&cov)
 	return errorsFrom(&pc, h, tr.Ekin)

@@ -1,17 +1,16 @@
 package ring
 
 import (
-	"errors"
 	"fmt"
 	"math"
+	"slices"
+	"sync"
 
-	"github.com/golang/geo/r3"
-
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/ring/internal/profile"
 	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/pmt"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // Hypothesis is a particle hypothesis of a single-ring fit.
@@ -49,29 +48,16 @@ func (h Hypothesis) String() string {
 	return fmt.Sprintf("Hypothesis(%d)", int(h))
 }
 
-// Track is a single-track hypothesis: start point (cm), start time (ns),
-// unit direction and kinetic energy (MeV).
-type Track struct {
-	Vertex r3.Vector
-	Time   float64
-	Dir    r3.Vector
-	Ekin   float64
-}
-
-// Config describes the detector a Fitter reconstructs events of.
+// Config describes the detector a Fitter reconstructs events of and how
+// it fits.
 type Config struct {
-	// Detector is the tank and its sensors.
-	Detector *geom.Detector
-	// Sensor is the response of every sensor.
-	Sensor pmt.Model
-	// Water is the water's optics; nil means optics.DefaultWaterConfig().
-	Water *optics.Water
-	// Liner is the wall between the sensors; its reflectivity sets the
-	// reflected-light term.
-	Liner optics.Liner
-	// Dead lists sensors to leave out of the likelihood (dead, masked or
-	// known bad); their hits are ignored.
-	Dead []int
+	// Setup is the detector: tank and sensors, sensor model, water, liner
+	// and dead sensors, with the defaults of Setup.Check (nil Water means
+	// pure water at 20 C). The liner's reflectivity sets the
+	// reflected-light term; dead sensors are left out of the likelihood
+	// and their hits ignored. The trigger is not used: Fit takes the
+	// readout window of each event.
+	setup.Setup
 	// SkipUncertainties leaves out the Hessian and the Cramer-Rao bound,
 	// which cost about as much as the fit itself.
 	SkipUncertainties bool
@@ -80,11 +66,12 @@ type Config struct {
 	MaxEvaluations int
 }
 
-// Fitter reconstructs single-ring events in one detector. It is immutable
-// after New and safe for concurrent use; each goroutine needs its own
-// Workspace.
+// Fitter reconstructs single-ring events in one detector. A Fitter is
+// immutable after New and safe for concurrent use by any number of
+// goroutines; per-call scratch is pooled.
 type Fitter struct {
 	cfg    Config
+	pool   sync.Pool // of *workspace
 	det    *geom.Detector
 	tab    *tableSet
 	resp   *response
@@ -122,25 +109,11 @@ const (
 
 // New checks cfg and builds the response tables of the detector.
 func New(cfg Config) (*Fitter, error) {
-	if cfg.Detector == nil {
-		return nil, errors.New("ring: Config.Detector is nil")
+	if err := cfg.Setup.Check(); err != nil {
+		return nil, fmt.Errorf("ring: Config: %w", err)
 	}
-	if cfg.Detector.NumSensors() == 0 {
-		return nil, errors.New("ring: Config.Detector has no sensors")
-	}
-	if err := cfg.Sensor.Validate(); err != nil {
-		return nil, fmt.Errorf("ring: Config.Sensor: %w", err)
-	}
-	if cfg.Water == nil {
-		w, err := optics.NewWater(optics.DefaultWaterConfig())
-		if err != nil {
-			return nil, err
-		}
-		cfg.Water = w
-	}
-	if err := cfg.Liner.Validate(); err != nil {
-		return nil, fmt.Errorf("ring: Config.Liner: %w", err)
-	}
+	// The fitter keeps its own list: the caller's may change after New.
+	cfg.Dead = slices.Clone(cfg.Dead)
 	if cfg.MaxEvaluations < 0 {
 		return nil, fmt.Errorf("ring: Config.MaxEvaluations = %d must not be negative", cfg.MaxEvaluations)
 	}
@@ -172,19 +145,9 @@ func New(cfg Config) (*Fitter, error) {
 		f.nx[i], f.ny[i], f.nz[i] = s.Dir.X, s.Dir.Y, s.Dir.Z
 	}
 	for _, d := range cfg.Dead {
-		if d < 0 || d >= n {
-			return nil, fmt.Errorf("ring: Config.Dead has sensor %d outside [0, %d)", d, n)
-		}
 		f.dead[d] = true
 	}
-	for _, d := range f.dead {
-		if !d {
-			f.live++
-		}
-	}
-	if f.live == 0 {
-		return nil, errors.New("ring: Config.Dead masks every sensor")
-	}
+	f.live = n - len(cfg.Dead)
 	m := cfg.Sensor
 	D := det.CathodeDiameter()
 	f.cathodeArea = math.Pi * D * D / 4
@@ -208,9 +171,9 @@ func New(cfg Config) (*Fitter, error) {
 	return f, nil
 }
 
-// EnergyRange returns the kinetic energy range (MeV) of the emission
+// EkinRange returns the kinetic energy range (MeV) of the emission
 // tables of hypothesis h: fits are confined to it.
-func (f *Fitter) EnergyRange(h Hypothesis) (lo, hi float64) {
+func (f *Fitter) EkinRange(h Hypothesis) (lo, hi float64) {
 	return f.energyLo[h], f.energyHi[h]
 }
 
@@ -221,10 +184,10 @@ func (f *Fitter) species(h Hypothesis) *speciesTable {
 	return f.tab.electron
 }
 
-// Workspace is the per-goroutine scratch of a Fitter: the predicted
+// workspace is the per-goroutine scratch of a Fitter: the predicted
 // charges and times of every sensor and the event's hits in sensor order.
-// A Workspace is not safe for concurrent use.
-type Workspace struct {
+// A workspace is not safe for concurrent use.
+type workspace struct {
 	f    *Fitter
 	prof profileAt
 	muD  []float64 // direct mean pe
@@ -354,10 +317,10 @@ func (g *stepGrid) stepLight(km int, ca, ra float64, ja int, cb, rb float64, jb 
 	return g.frac[km] * gk * wsum
 }
 
-// NewWorkspace returns a scratch space for f.
-func (f *Fitter) NewWorkspace() *Workspace {
+// newWorkspace returns a scratch space for f.
+func (f *Fitter) newWorkspace() *workspace {
 	n := f.n
-	w := &Workspace{f: f, muD: make([]float64, n), muI: make([]float64, n),
+	w := &workspace{f: f, muD: make([]float64, n), muI: make([]float64, n),
 		tDir: make([]float64, n), sgT: make([]float64, n),
 		hitQ: make([]float64, n), hitT: make([]float64, n)}
 	for i := range w.hitQ {
@@ -366,19 +329,29 @@ func (f *Fitter) NewWorkspace() *Workspace {
 	return w
 }
 
+// workspace takes a scratch space from the pool; give it back with
+// f.pool.Put.
+func (f *Fitter) workspace() *workspace {
+	if w, ok := f.pool.Get().(*workspace); ok {
+		return w
+	}
+	return f.newWorkspace()
+}
+
 // Predict fills mu with the predicted mean number of photoelectrons
 // (direct, scattered and reflected light, without dark noise) and t with
 // the predicted direct-light time (ns) at every sensor for hypothesis h
 // and track tr. mu and t must have Detector.NumSensors() elements; either
 // may be nil.
-func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
-	f := w.f
+func (f *Fitter) Predict(h Hypothesis, tr fit.Track, mu, t []float64) error {
 	if (mu != nil && len(mu) != f.n) || (t != nil && len(t) != f.n) {
 		return fmt.Errorf("ring: Predict: slices of length %d and %d, want %d", len(mu), len(t), f.n)
 	}
 	if err := f.checkTrack(h, tr); err != nil {
 		return err
 	}
+	w := f.workspace()
+	defer f.pool.Put(w)
 	tr.Dir = tr.Dir.Normalize()
 	w.allTimes = true
 	w.predict(h, tr)
@@ -390,7 +363,7 @@ func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
 	return nil
 }
 
-func (f *Fitter) checkTrack(h Hypothesis, tr Track) error {
+func (f *Fitter) checkTrack(h Hypothesis, tr fit.Track) error {
 	if h != Electron && h != Muon {
 		return fmt.Errorf("ring: hypothesis %d unknown", int(h))
 	}
@@ -405,7 +378,7 @@ func (f *Fitter) checkTrack(h Hypothesis, tr Track) error {
 	if !finite(d) || d < 1e-6 {
 		return fmt.Errorf("ring: Track.Dir %v must be a finite non-zero vector", tr.Dir)
 	}
-	lo, hi := f.EnergyRange(h)
+	lo, hi := f.EkinRange(h)
 	if !(tr.Ekin >= lo && tr.Ekin <= hi) {
 		return fmt.Errorf("ring: Track.Ekin = %g MeV outside the %v table range %g-%g MeV", tr.Ekin, h, lo, hi)
 	}
@@ -416,7 +389,7 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // predict computes muD, muI, tDir and sgT for a valid track (unit Dir,
 // energy in range, vertex inside). It does not allocate.
-func (w *Workspace) predict(h Hypothesis, tr Track) {
+func (w *workspace) predict(h Hypothesis, tr fit.Track) {
 	f := w.f
 	r := f.resp
 	p := &w.prof

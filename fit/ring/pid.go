@@ -7,6 +7,8 @@ import (
 	"sort"
 
 	"gonum.org/v1/gonum/stat"
+
+	"github.com/conelight/conelight/fit"
 )
 
 // CalibratePID returns the PIDCut line that separates samples of known
@@ -27,7 +29,7 @@ func CalibratePID(electrons, muons []Reconstruction, binWidth float64) (PIDCut, 
 	type bin struct{ e, mu []float64 }
 	bins := map[int]*bin{}
 	add := func(r *Reconstruction, electron bool) {
-		if !r.Electron.Converged || !r.Muon.Converged || !finite(r.LLR) {
+		if r.Electron.Status != fit.Converged || r.Muon.Status != fit.Converged || !finite(r.LLR) {
 			return
 		}
 		p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum)

@@ -6,6 +6,8 @@ import (
 
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
+
+	"github.com/conelight/conelight/fit"
 )
 
 // The track fit minimizes the likelihood by Levenberg-Marquardt-damped
@@ -58,7 +60,7 @@ type scoreScratch struct {
 	step   [NumParams][]float64
 }
 
-func (w *Workspace) scratch() *scoreScratch {
+func (w *workspace) scratch() *scoreScratch {
 	s := &w.score
 	if s.center == nil {
 		n := w.f.n
@@ -72,7 +74,7 @@ func (w *Workspace) scratch() *scoreScratch {
 
 // penalty is the smooth wall of the objective at the tank surface and the
 // ends of the energy range, and the track to evaluate the likelihood at.
-func (w *Workspace) penalty(fr *frame, x []float64) (Track, float64) {
+func (w *workspace) penalty(fr *frame, x []float64) (fit.Track, float64) {
 	tr, eOut := fr.track(x)
 	pen := 1e4 * eOut
 	if d := w.f.det.DistanceToWall(tr.Vertex); d < 0 {
@@ -85,7 +87,7 @@ func (w *Workspace) penalty(fr *frame, x []float64) (Track, float64) {
 
 // evalTerms evaluates the objective at x, leaving the prediction in the
 // workspace and the per-sensor terms in terms.
-func (w *Workspace) evalTerms(h Hypothesis, fr *frame, x, terms []float64) float64 {
+func (w *workspace) evalTerms(h Hypothesis, fr *frame, x, terms []float64) float64 {
 	for _, xi := range x {
 		if !finite(xi) {
 			return math.MaxFloat64 / 4
@@ -102,7 +104,7 @@ func (w *Workspace) evalTerms(h Hypothesis, fr *frame, x, terms []float64) float
 // point reached (in the final fr), the objective there, whether the point
 // is a minimum and, if not, why. The workspace's prediction on
 // return is of some point of the search.
-func (w *Workspace) minimizeScoring(h Hypothesis, fr *frame) (x []float64, fx float64, ok bool, why string) {
+func (w *workspace) minimizeScoring(h Hypothesis, fr *frame) (x []float64, fx float64, ok bool, why string) {
 	sc := w.scratch()
 	n := w.f.n
 	x = make([]float64, NumParams)

@@ -15,7 +15,7 @@ const gridHits = 300
 
 // spreadHits returns at most n of the loaded event's hit sensors, evenly
 // spread over the list (all of them when there are no more than n).
-func (w *Workspace) spreadHits(n int) []int {
+func (w *workspace) spreadHits(n int) []int {
 	if len(w.hits) <= n {
 		return w.hits
 	}
@@ -37,7 +37,7 @@ const goodChargeCap = 3
 // is maximized first on a grid over the tank and then by Nelder-Mead.
 // The point found lies along the track, near where most of the light comes
 // from; the track fits move it back to the start.
-func (w *Workspace) pointSeed() (r3.Vector, float64) {
+func (w *workspace) pointSeed() (r3.Vector, float64) {
 	f := w.f
 	sigma := math.Hypot(f.tts, 1.5)
 	good := func(hits []int, v r3.Vector, t0 float64) float64 {
@@ -137,7 +137,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 // which the charge of the hits is most concentrated at the Cherenkov
 // angle, searched over a spiral of directions covering the sphere and
 // refined around the best one.
-func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
+func (w *workspace) directionSeed(v r3.Vector) r3.Vector {
 	score := w.ringScore(v, w.hits)
 	// The spiral needs only a rough axis: it scores at most gridHits of
 	// the hits, evenly spread; the refinement scores them all.
@@ -177,13 +177,13 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 }
 
 // refineDirection re-aims the ring axis from a new vertex v, starting at u.
-func (w *Workspace) refineDirection(v, u r3.Vector) r3.Vector {
+func (w *workspace) refineDirection(v, u r3.Vector) r3.Vector {
 	score := w.ringScore(v, w.hits)
 	return w.refine(u, score)
 }
 
 // refine searches rings of shrinking opening about the best direction.
-func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float64) r3.Vector {
+func (w *workspace) refine(best r3.Vector, score func(r3.Vector, float64) float64) r3.Vector {
 	bs := score(best, 0.03)
 	for _, ang := range []float64{0.06, 0.03, 0.015, 0.007, 0.003} {
 		c := best
@@ -200,7 +200,7 @@ func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float6
 // ringScore returns the score of a ring axis seen from v: the hit charge
 // (capped at 10 pe) within a Gaussian band of the given width in cosine
 // about the Cherenkov angle.
-func (w *Workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) float64 {
+func (w *workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) float64 {
 	f := w.f
 	cosC := 1 / f.resp.index
 	type hv struct {
