@@ -481,7 +481,8 @@ func (w *workspace) fitLoaded(h Hypothesis, seed fit.Track) Result {
 		return res
 	}
 	fr := newFrame(seed, lo, hi)
-	x, fx, ok, why := w.minimizeScoring(h, &fr)
+	m := w.minimizeScoring(h, &fr)
+	x, fx, ok, why := m.X, m.F, m.OK, m.Reason
 	res.Evaluations = w.evals
 	best, eOut := fr.track(x)
 	res.Track = best

@@ -7,6 +7,7 @@ import (
 	"sync"
 
 	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/fit/ring/internal/minimize"
 	"github.com/conelight/conelight/fit/ring/internal/profile"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/sim/phys"
@@ -199,7 +200,7 @@ type workspace struct {
 	hits       []int // hit sensors
 	window     float64
 	evals      int
-	score      scoreScratch
+	score      minimize.Scratch
 	grid       stepGrid
 	// allTimes makes predict fill the times of every sensor, not only
 	// of the hit ones (Predict and the Cramer-Rao bound).
