@@ -1,6 +1,7 @@
 // Package minimize minimizes an objective that is a sum of independent
 // terms (the per-sensor terms of a likelihood) plus a smooth penalty, by
-// Levenberg-Marquardt-damped scoring.
+// Levenberg-Marquardt-damped scoring (Scoring), and measures the
+// curvature at the minimum by central differences (Curvature).
 //
 // One forward-difference pass over the parameters gives every term's
 // score s_i = d(term_i)/dx as well as the gradient g = sum_i s_i, and the
@@ -21,4 +22,9 @@
 // is below Settings.DecrementTol, or after two accepted steps in a row
 // that each gained less than Settings.FloorGain (the noise floor of an
 // objective built on interpolated tables).
+//
+// Both let the problem serve a variable from stored state instead of a
+// full evaluation (a time offset that moves only predicted times):
+// Problem.FastScore for the scores, CurvatureProblem.Shifted for the
+// Hessian.
 package minimize
