@@ -107,8 +107,9 @@
 // the table energy range (Fitter.EkinRange), and then holds finite numbers
 // only; a minimum on the wall or at an end of the range is fit.AtLimit,
 // and Reason says why for any status but fit.Converged. ErrorsValid is
-// false when the numerical Hessian is not positive definite (ErrorsNote),
-// which leaves the fit and the particle identification standing.
+// false when the numerical Hessian is not positive definite (Reason then
+// says so), which leaves the fit and the particle identification
+// standing.
 //
 // The Hessian uncertainties are those of the likelihood as written, which
 // treats sensors as independent given the prediction. The model width of

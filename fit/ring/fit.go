@@ -25,14 +25,14 @@ type Result struct {
 	// result holds only finite numbers. fit.AtLimit: the minimum lies on
 	// the tank wall or at an end of the energy range; fit.NotConverged:
 	// the minimizer stopped without converging. Reason says why for any
-	// other status.
+	// other status, or why ErrorsValid is false for a converged fit whose
+	// uncertainties were wanted.
 	Status fit.Status
 	Reason string
 	// ErrorsValid says that Errors, Cov and CramerRao hold the
 	// uncertainties; when they were wanted but could not be had (the
-	// numerical Hessian not positive definite) ErrorsNote says why.
+	// numerical Hessian not positive definite) Reason says why.
 	ErrorsValid bool
-	ErrorsNote  string
 	// Errors are from the curvature of the likelihood (the inverse of the
 	// numerical Hessian), the two angles along the axes of phys.Basis of
 	// Track.Dir; Cov is that covariance matrix in the parameter order of

@@ -40,12 +40,12 @@ func (w *workspace) addUncertainties(res *Result) {
 	}
 	res.Evaluations = w.evals
 	if !ok {
-		res.ErrorsNote = "Hessian not positive definite"
+		res.Reason = "Hessian not positive definite"
 		return
 	}
 	var cov mat.SymDense
 	if err := ch.InverseTo(&cov); err != nil {
-		res.ErrorsNote = fmt.Sprintf("Hessian inversion: %v", err)
+		res.Reason = fmt.Sprintf("Hessian inversion: %v", err)
 		return
 	}
 	res.Cov = fr.physCov(&cov)
@@ -56,7 +56,7 @@ func (w *workspace) addUncertainties(res *Result) {
 		res.Errors.Angle[0], res.Errors.Angle[1], res.Errors.Ekin,
 		res.CramerRao.Angle[0], res.CramerRao.Angle[1], res.CramerRao.Ekin} {
 		if !finite(v) {
-			res.ErrorsNote = "uncertainties not finite"
+			res.Reason = "uncertainties not finite"
 			res.Errors, res.CramerRao, res.Cov = fit.Errors{}, fit.Errors{}, [NumParams][NumParams]float64{}
 			return
 		}
