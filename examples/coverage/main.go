@@ -10,8 +10,9 @@
 //	go run ./examples/coverage -attenuation 1500,3000,6000 -tts ""
 //	go run ./examples/coverage -particle mu- -energy 400 -n 40 -sensors medium -tts ""
 //
-// Electrons, positrons and photons up to 100 MeV are reconstructed with the
-// low-energy fitter (package fit); other particles and energies with the
+// Electrons, positrons and photons up to the top of the low-energy
+// fitter's calibration (lowenergy.Fitter.EkinRange, 100 MeV for the
+// built-in tables) are reconstructed with it (fit/lowenergy); other particles and energies with the
 // single-ring fitter (fit/ring), which fits both the electron and the muon
 // hypothesis and so also gives the e/mu mis-identification (about a second
 // per event: keep -n small); -fitter chooses explicitly.
@@ -33,8 +34,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"os"
@@ -47,6 +46,9 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
+	"github.com/conelight/conelight/examples/internal/parallel"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
@@ -59,7 +61,6 @@ import (
 	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
-	simsetup "github.com/conelight/conelight/sim/setup"
 )
 
 type options struct {
@@ -75,6 +76,7 @@ type options struct {
 	formats     []string
 	quiet       bool
 	fitter      string // auto, low or ring
+	detector    string // -detector (detflag): the tank, water, liner and trigger; empty means the demo tank
 }
 
 // The reference point of the second study axes: the class and coverage the
@@ -114,6 +116,7 @@ func main() {
 	att := flag.String("attenuation", "", "comma-separated water attenuation lengths (cm at 400 nm) at medium 30% (empty: skip)")
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage+"; its tank, water, liner and trigger are kept, its sensors replaced at each point")
 	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to the top of the low-energy fitter's calibrated range, ring otherwise)")
 	cli.Parse(usage)
 	var err error
@@ -328,17 +331,19 @@ func est(e resolution.Estimate, scale float64) string {
 func measure(ctx context.Context, o options, su setup) (point, error) {
 	model := models[su.sensor]()
 	model.TTS *= su.ttsScale
-	det, err := geom.Layout(geom.DemoTank(), model.CathodeDiameter, su.coverage)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return point{}, err
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	det, err := geom.Layout(cfg.Detector.Tank(), model.CathodeDiameter, su.coverage)
 	if err != nil {
 		return point{}, err
 	}
-	cfg.Detector, cfg.Sensor = det, model
+	// A new layout: the description's dead-sensor indices mean nothing in it.
+	cfg.Detector, cfg.Sensor, cfg.Dead = det, model, nil
 	if su.attenuation > 0 {
-		wc := optics.DefaultWaterConfig()
+		wc := cfg.Water.Config()
+		wc.AbsorptionScale = optics.DefaultWaterConfig().AbsorptionScale
 		wc.AttenuationLength, wc.AttenuationWavelength = su.attenuation, attenuationWavelength
 		if cfg.Water, err = optics.NewWater(wc); err != nil {
 			return point{}, err
@@ -376,7 +381,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	var low *lowenergy.Fitter
 	if o.fitter != "ring" {
 		c := s.Config()
-		if low, err = lowenergy.New(lowenergy.Config{Setup: simsetup.Setup{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner}}); err != nil {
+		if low, err = lowenergy.New(lowenergy.Config{Setup: c.Setup}); err != nil {
 			return point{}, err
 		}
 	}

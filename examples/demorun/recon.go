@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"path/filepath"
@@ -14,6 +13,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/parallel"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
@@ -22,7 +22,6 @@ import (
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/phys"
-	"github.com/conelight/conelight/sim/setup"
 )
 
 // minSummary is the fewest fitted events resolution.Summarize accepts.
@@ -72,7 +71,7 @@ func isElectromagnetic(pdg int) bool {
 // reconstruct fits every sample, prints the resolution table and writes
 // the figures.
 func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg sim.Config, samples []*sample) error {
-	low, err := lowenergy.New(lowenergy.Config{Setup: setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}})
+	low, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		return err
 	}
@@ -107,6 +106,10 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	files, err := writeFigures(o, low, cfg, samples)
 	if err != nil {
 		return err
+	}
+	if len(files) == 0 {
+		fmt.Fprintln(stdout, "\nno figures: no sample was reconstructed")
+		return nil
 	}
 	fmt.Fprintf(stdout, "\nfigures: %s\n", strings.Join(files, " "))
 	return nil

@@ -4,16 +4,15 @@ package main
 
 import (
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
 	"log"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/examples/internal/cli"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
-	"github.com/conelight/conelight/sim/setup"
 )
 
 // usage is the program's -h text.
@@ -35,7 +34,7 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Setup: setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		log.Fatal(err)
 	}

@@ -26,11 +26,16 @@ func TestDeadSensors(t *testing.T) {
 	for _, d := range dead {
 		isDead[d] = true
 	}
-	s := setupOf(cfg)
+	s := cfg.Setup
 	s.Dead = dead
 	withDead, err := lowenergy.New(lowenergy.Config{Setup: s})
 	if err != nil {
 		t.Fatal(err)
+	}
+	// An event seen only by dead sensors has no usable hits.
+	onlyDead := []pmt.Hit{{Sensor: dead[0], Time: 1, Charge: 1}, {Sensor: dead[1], Time: 2, Charge: 1}}
+	if r, err := withDead.Fit(onlyDead); err != nil || r.Status != fit.NoHits || r.DeadHits != 2 || r.Reason == "" {
+		t.Errorf("hits on dead sensors only: %v, status %v, %d dead hits, reason %q", err, r.Status, r.DeadHits, r.Reason)
 	}
 	const e = 10
 	var told, naive []float64

@@ -56,14 +56,14 @@
 //
 // Energy. The effective hit count sums over prompt hits the occupancy
 // correction -ln(1-x)/x (x the fraction of hit sensors among the sensor
-// and its live neighbours within 2.5 pitches), the inverse mean transmission
-// of the light path (absorption and scattering over the detected
-// spectrum) and the inverse angular acceptance at the incidence angle,
-// subtracts the expected dark hits of the prompt window, and divides by
-// the photocathode coverage of the live sensors and the mean spectral
-// efficiency: it
-// estimates the Cherenkov photons emitted in the band, so one calibration
-// serves sensors of other coverage and efficiency. The tabulated
+// and its live neighbours within 2.5 pitches), the inverse mean
+// transmission of the light path (absorption and scattering over the
+// detected spectrum) and the inverse angular acceptance at the incidence
+// angle, subtracts the expected dark hits of the prompt window, and
+// divides by the photocathode coverage of the live sensors and the mean
+// spectral efficiency: it estimates the Cherenkov photons emitted in the
+// band, so one calibration serves sensors of other coverage and
+// efficiency, and a detector with dead sensors. The tabulated
 // calibration maps it to kinetic energy, gives the energy spread and the
 // shift of the light-weighted vertex ahead of the track start, by which
 // the vertex is moved back along the fitted direction (Result.Shift).

@@ -27,7 +27,7 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Setup: setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -44,4 +44,22 @@ func Example() {
 	// vertex within 1 m: true
 	// direction within 60 degrees: true
 	// energy within 5-15 MeV: true
+}
+
+// Build a fitter from the demo detector description, with two sensors out
+// of service, and ask for the energy range its calibration covers.
+func ExampleFitter_EkinRange() {
+	s, err := setup.Demo()
+	if err != nil {
+		log.Fatal(err)
+	}
+	s.Dead = []int{12, 345}
+	f, err := lowenergy.New(lowenergy.Config{Setup: s})
+	if err != nil {
+		log.Fatal(err)
+	}
+	lo, hi := f.EkinRange()
+	fmt.Printf("tables %q, calibrated from %g to %g MeV\n", f.Tables().Name, lo, hi)
+	// Output:
+	// tables "demo", calibrated from 3 to 100 MeV
 }

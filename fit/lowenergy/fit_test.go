@@ -203,7 +203,7 @@ func TestNewErrors(t *testing.T) {
 	badSensor := cfg.Sensor
 	badSensor.TTS = math.NaN()
 	badTables := &lowenergy.Tables{Name: "x", TankRadius: 1, TankHalfHeight: 1}
-	base := setupOf(cfg)
+	base := cfg.Setup
 	with := func(change func(*lowenergy.Config)) lowenergy.Config {
 		c := lowenergy.Config{Setup: base}
 		change(&c)
@@ -239,7 +239,7 @@ func TestDefaultWater(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s := setupOf(cfg)
+	s := cfg.Setup
 	s.Water = nil
 	fNil, err := lowenergy.New(lowenergy.Config{Setup: s})
 	if err != nil {
@@ -406,5 +406,37 @@ func TestLight(t *testing.T) {
 	}
 	if _, err := lowenergy.NewLight(w, &m, math.NaN()); err == nil {
 		t.Error("NaN path accepted")
+	}
+}
+
+// A Fitter is immutable after New: changing the tables it was given, or
+// the copy Tables returns, changes no fit.
+func TestTablesCopied(t *testing.T) {
+	cfg, f := demoFitter(t)
+	tb, err := lowenergy.EmbeddedTables("demo")
+	if err != nil {
+		t.Fatal(err)
+	}
+	own, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: tb})
+	if err != nil {
+		t.Fatal(err)
+	}
+	hits := synthetic(rand.New(rand.NewPCG(3, 9)), f, cfg.Detector, cfg.Sensor, r3.Vector{Z: -80}, 0, 60)
+	before, err := own.Fit(hits)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []*lowenergy.Tables{tb, own.Tables()} {
+		for i := range c.Energy {
+			c.Energy[i].Mean *= 2
+		}
+		c.Residual[0].Density = 1e6
+	}
+	after, err := own.Fit(hits)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if after.Track != before.Track || after.Errors != before.Errors {
+		t.Errorf("fit moved after the tables were changed: %+v, was %+v", after.Track, before.Track)
 	}
 }

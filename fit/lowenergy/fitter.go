@@ -107,6 +107,10 @@ func New(cfg Config) (*Fitter, error) {
 		}
 	} else if err := tables.Validate(); err != nil {
 		return nil, err
+	} else {
+		// The fitter keeps its own copy: a caller changing its tables
+		// later changes no fit.
+		tables = tables.clone()
 	}
 	diag := math.Hypot(2*radius, 2*half)
 	light, err := NewLight(s.Water, &s.Sensor, diag)
@@ -181,8 +185,8 @@ func (f *Fitter) EkinRange() (lo, hi float64) {
 // converts path lengths to times with.
 func (f *Fitter) GroupVelocity() float64 { return f.vg }
 
-// Tables returns the tables the fitter was built from (do not modify).
-func (f *Fitter) Tables() *Tables { return f.tables }
+// Tables returns a copy of the tables the fitter was built from.
+func (f *Fitter) Tables() *Tables { return f.tables.clone() }
 
 // PromptWindow returns the time-residual window (ns) of the hits the
 // direction and energy estimates use.

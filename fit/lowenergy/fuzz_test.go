@@ -23,7 +23,7 @@ func FuzzFit(f *testing.F) {
 	if err != nil {
 		f.Fatal(err)
 	}
-	fitter, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg)})
+	fitter, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		f.Fatal(err)
 	}

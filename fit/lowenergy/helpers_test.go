@@ -12,7 +12,6 @@ import (
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
-	"github.com/conelight/conelight/sim/setup"
 )
 
 // fitted is one simulated and fitted event.
@@ -89,14 +88,9 @@ func fitterFor(t testing.TB, cfg sim.Config, err error) (sim.Config, *lowenergy.
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg)})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		t.Fatal(err)
 	}
 	return cfg, f
-}
-
-// setupOf returns the detector description of a simulation configuration.
-func setupOf(cfg sim.Config) setup.Setup {
-	return setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}
 }

@@ -26,7 +26,7 @@ func TestOptimizerLimits(t *testing.T) {
 		{lowenergy.Config{MaxIterations: 1}, "IterationLimit"},
 		{lowenergy.Config{MaxDuration: time.Nanosecond}, "RuntimeLimit"},
 	} {
-		c.cfg.Setup = setupOf(cfg)
+		c.cfg.Setup = cfg.Setup
 		f, err := lowenergy.New(c.cfg)
 		if err != nil {
 			t.Fatal(err)
@@ -48,7 +48,7 @@ func TestOptimizerLimits(t *testing.T) {
 			t.Errorf("%s: no fit was stopped", c.want)
 		}
 	}
-	if _, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
+	if _, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
 		t.Errorf("negative MaxDuration: %v", err)
 	}
 }

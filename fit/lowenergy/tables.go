@@ -7,13 +7,15 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
-	"os"
-	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
 	"unicode"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
@@ -67,6 +69,16 @@ type Tables struct {
 	Energy []CalibrationPoint
 	// Meta holds free-form provenance (generator settings, event counts).
 	Meta map[string]string
+}
+
+// clone returns a deep copy of t.
+func (t *Tables) clone() *Tables {
+	c := *t
+	c.Residual = slices.Clone(t.Residual)
+	c.Direction = slices.Clone(t.Direction)
+	c.Energy = slices.Clone(t.Energy)
+	c.Meta = maps.Clone(t.Meta)
+	return &c
 }
 
 // EmbeddedTables returns the table set embedded in the package under name
@@ -382,29 +394,6 @@ func WriteTables(w io.Writer, t *Tables) error {
 
 // SaveTables writes t to path atomically (temporary file in the same
 // directory, then rename).
-func SaveTables(path string, t *Tables) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), ".tables-*")
-	if err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err = WriteTables(f, t); err != nil {
-		return err
-	}
-	// CreateTemp makes the file private; a table is a source file.
-	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	if err = os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("lowenergy: %w", err)
-	}
-	return nil
+func SaveTables(path string, t *Tables) error {
+	return safefile.Write(path, func(w io.Writer) error { return WriteTables(w, t) })
 }

@@ -47,14 +47,18 @@ func along(pdg int, ekin float64) phys.Particle {
 
 func TestPionRangeScaledFromMuon(t *testing.T) {
 	// The Bethe formula depends on the particle only through beta gamma
-	// (up to the small m_e/M term of W_max), so R/M is a function of beta
-	// gamma alone (PDG Review, "Passage of particles through matter"):
-	// the pion's CSDA range at the muon's beta gamma is the muon's times
-	// m_pi/m_mu. Muon ranges in liquid water from Groom, Mokhov,
-	// Striganov, ADNDT 78 (2001) 183 (from memory, as in sim/heavy):
-	// 31.0 g/cm2 at 100 MeV, 470 g/cm2 at 1 GeV. Within 2%.
+	// (up to the small m_e/M term of W_max and the muon's radiative
+	// losses), so R/M is a function of beta gamma alone (PDG Review,
+	// "Passage of particles through matter"): the pion's CSDA range at the
+	// muon's beta gamma is the muon's times m_pi/m_mu. Muon CSDA ranges in
+	// liquid water from the muon table made with the PDG's water
+	// parameters (PUMAS table dedx/muon/water_liquid.txt of
+	// niess/pumas-materials, looked up): 31.23, 129.1 and 473.2 g/cm2 at
+	// 100, 300 and 1000 MeV. That table uses I = 79.7 eV, conelight 75.0
+	// eV (see material.Water), which shortens ranges by about 1%. Within
+	// 2%.
 	p := newPhysics(t, heavy.Config{})
-	for _, c := range []struct{ tMu, rMu float64 }{{100, 31.0}, {1000, 470}} {
+	for _, c := range []struct{ tMu, rMu float64 }{{100, 31.23}, {300, 129.1}, {1000, 473.2}} {
 		tPi := c.tMu * phys.PionMass / phys.MuonMass
 		r, err := p.Pion(false).CSDARange(tPi)
 		if err != nil {
@@ -68,10 +72,14 @@ func TestPionRangeScaledFromMuon(t *testing.T) {
 }
 
 func TestProtonRangePSTAR(t *testing.T) {
-	// NIST PSTAR, liquid water, CSDA range (g/cm2); values from memory
-	// (the tables could not be looked up). Within 2%.
+	// NIST PSTAR, liquid water, CSDA range (g/cm2), looked up: 10 MeV
+	// 0.1230, 20 MeV 0.4260, 50 MeV 2.227, 100 MeV 7.718, 200 MeV 25.96,
+	// 500 MeV 117.0, 1 GeV 325.4, 2 GeV 805.4. Within 2% (the issue's
+	// target from 10 MeV to 2 GeV).
 	p := newPhysics(t, heavy.Config{})
-	for _, c := range []struct{ t, r float64 }{{10, 0.1230}, {100, 7.718}, {200, 25.96}, {1000, 324.1}} {
+	for _, c := range []struct{ t, r float64 }{
+		{10, 0.1230}, {20, 0.4260}, {50, 2.227}, {100, 7.718}, {200, 25.96}, {500, 117.0}, {1000, 325.4}, {2000, 805.4},
+	} {
 		r, err := p.Proton().CSDARange(c.t)
 		if err != nil {
 			t.Fatal(err)
@@ -190,8 +198,11 @@ func TestPionInteractionLengthAndChannels(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if tr.Fate != phys.Interacted {
+			if tr.Fate != phys.Interacted && tr.Fate != phys.Absorbed {
 				continue
+			}
+			if (tr.Fate == phys.Absorbed) != (tr.Channel == Absorption) {
+				t.Fatalf("fate %v for channel %v", tr.Fate, tr.Channel)
 			}
 			interacted++
 			if tr.Target == 8 {
@@ -352,4 +363,132 @@ func TestPiZeroOpeningAngle(t *testing.T) {
 	if se := 1 / (2 * f * math.Sqrt(n)); math.Abs(med-want) > 5*se {
 		t.Errorf("median opening angle %.5f rad, analytic %.5f (se %.5f)", med, want, se)
 	}
+}
+
+func TestPionCherenkovThreshold(t *testing.T) {
+	// Segments are reported only above beta = 1/n: for a pion at the
+	// configured index n = 1.33 the threshold momentum is
+	// m_pi/sqrt(n^2 - 1) = 159.2 MeV/c (the ~159 MeV/c of water). A pion
+	// started at 150 MeV/c makes no segment; one at 250 MeV/c makes
+	// segments that start above the threshold speed.
+	const n = 1.33
+	p := newPhysics(t, heavy.Config{ThresholdIndex: n, NoScattering: true})
+	thr := phys.PionMass / math.Sqrt(n*n-1)
+	if math.Abs(thr-159.2) > 0.1 {
+		t.Fatalf("threshold %g MeV/c", thr)
+	}
+	rng := newRNG(11, 12)
+	for _, c := range []struct {
+		mom   float64
+		light bool
+	}{{150, false}, {250, true}} {
+		var s segSink
+		_, err := p.TrackPion(along(phys.PionPlusCode, phys.KineticFromMomentum(c.mom, phys.PionMass)), ball{1e4}, rng, &s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if (len(s.segs) > 0) != c.light {
+			t.Errorf("%g MeV/c: %d segments", c.mom, len(s.segs))
+		}
+		for _, g := range s.segs {
+			if g.Track == 1 && g.Beta0 <= 1/n {
+				t.Errorf("segment starting at beta %g below 1/n", g.Beta0)
+			}
+		}
+	}
+}
+
+type segSink struct {
+	recordSink
+	segs []phys.Segment
+}
+
+func (s *segSink) Segment(g phys.Segment) { s.segs = append(s.segs, g) }
+
+func TestInteractionEnergyBalance(t *testing.T) {
+	// Energy conservation of the nuclear model: the products of a
+	// quasi-elastic or charge-exchange collision carry the pion's total
+	// energy plus the struck nucleon's bound energy, sqrt(m^2 + p_F^2) -
+	// 27 MeV; so their kinetic energies (with the de-excitation gamma)
+	// add up to T_pi - 27 MeV + T_Fermi + (m_pi - m_out) + (m_target -
+	// m_nucleon_out), T_Fermi between 0 and 26.6 MeV (k_F = 225 MeV/c).
+	// Absorption: T_pi + m_pi - 54 MeV + two Fermi energies.
+	p := newPhysics(t, heavy.Config{})
+	rng := newRNG(13, 14)
+	const tpi = 200.0
+	tfMax := math.Hypot(fermiMomentum, phys.ProtonMass) - phys.ProtonMass
+	for i := 0; i < 3000; i++ {
+		var tr Truth
+		pi := phys.OnShell(phys.PionMass, tpi, r3.Vector{Z: 1})
+		out := p.pionInteraction(pi, i%2 == 1, &tr, rng, nil)
+		if tr.Target != 8 || tr.Channel == Elastic {
+			continue
+		}
+		var sumE float64
+		for _, q := range out {
+			sumE += q.p.E
+		}
+		lo := tpi + phys.PionMass + phys.NeutronMass - removalEnergy - 1
+		if tr.Channel == Absorption {
+			lo = tpi + phys.PionMass + phys.ProtonMass + phys.NeutronMass - 2*removalEnergy - 1
+		}
+		hi := lo + 2 + 2*tfMax + 2 // +2 for the n-p mass difference and the gamma's share
+		if tr.Channel != Absorption {
+			hi = lo + 2 + tfMax + 7
+		}
+		if sumE < lo || sumE > hi {
+			t.Fatalf("%v: products carry %.2f MeV, expected %.2f-%.2f", tr.Channel, sumE, lo, hi)
+		}
+	}
+}
+
+func TestProtonNuclearInteractionProbability(t *testing.T) {
+	// Protons of 200 MeV stopping in water: the fraction with a
+	// non-elastic nuclear interaction (on oxygen) against the integral of
+	// the model cross-section along the CSDA path, 1 - exp(-int n_O
+	// sigma_R dE/S) (5 binomial standard errors plus 3% for straggling
+	// and the trapezoid steps), and against the rule of about 1% of the
+	// protons lost per cm of range in water (ICRU Report 63, nuclear data
+	// for proton therapy; from memory): 1 - exp(-0.01 R) = 23% for the
+	// 26 cm of a 200 MeV proton, within 4 percentage points.
+	p := newPhysics(t, heavy.Config{})
+	rng := newRNG(15, 16)
+	const n, t0 = 4000, 200.0
+	var onO int
+	for i := 0; i < n; i++ {
+		var s recordSink
+		tr, err := p.TrackProton(along(phys.ProtonCode, t0), ball{1e4}, rng, &s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if tr.Fate == phys.Interacted && tr.Target == 8 {
+			onO++
+		}
+	}
+	// The integral, by the midpoint rule in T over 1 MeV steps. Elastic
+	// p-p scatters (above 50 MeV) end the track too: a proton scattered on
+	// hydrogen is a new track and is not counted here, so its later
+	// oxygen interactions are missed; their share (a few per cent of
+	// 20%) is inside the tolerance.
+	var depth float64
+	for x := 1.5; x < t0; x++ {
+		s, _ := p.Proton().StoppingPower(x)
+		depth += p.nO * ProtonOxygenReaction(x) * millibarn / s
+	}
+	// Probability of reaching an oxygen interaction before a p-p scatter.
+	var depthH float64
+	for x := 50.5; x < t0; x++ {
+		s, _ := p.Proton().StoppingPower(x)
+		depthH += p.nH * ProtonProtonElastic(x) * millibarn / s
+	}
+	want := 1 - math.Exp(-depth)
+	f := float64(onO) / n
+	if math.Abs(f-want) > 5*math.Sqrt(want*(1-want)/n)+0.03*want+(1-math.Exp(-depthH))*want {
+		t.Errorf("200 MeV protons: %.3f interact on oxygen, model integral %.3f", f, want)
+	}
+	r, _ := p.Proton().CSDARange(t0)
+	if rule := 1 - math.Exp(-0.01*r); math.Abs(want-rule) > 0.04 {
+		t.Errorf("model non-elastic probability %.3f, 1%%/cm rule %.3f", want, rule)
+	}
+	t.Logf("200 MeV protons: %.3f on oxygen (n = %d), integral %.3f", f, n, want)
 }

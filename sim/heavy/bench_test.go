@@ -1,8 +1,9 @@
 package heavy
 
 import (
-	"github.com/conelight/conelight/sim/phys"
 	"testing"
+
+	"github.com/conelight/conelight/sim/phys"
 )
 
 // benchTrack transports muons of kinetic energy ekin (MeV) stopping in a

@@ -1,11 +1,11 @@
 package heavy
 
 import (
-	"gonum.org/v1/gonum/stat/distuv"
 	"math"
 	"math/rand/v2"
 
 	"github.com/golang/geo/r3"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"github.com/conelight/conelight/sim/phys"
 )

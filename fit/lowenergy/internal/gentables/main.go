@@ -36,7 +36,6 @@ import (
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim"
-	"github.com/conelight/conelight/sim/setup"
 )
 
 func main() {
@@ -139,7 +138,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		dirEdges[i] = -1 + 2*float64(i)/float64(dirBins)
 	}
 	t.Direction = uniformDensity(dirEdges)
-	provisional, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), Tables: t})
+	provisional, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -169,7 +168,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 	t.Meta["direction"] = fmt.Sprintf("%d prompt hits in [%.2f, %.2f] ns", nDir, lo, hi)
 
 	// 3. Energy calibration with full fits.
-	fitter, err := lowenergy.New(lowenergy.Config{Setup: setupOf(cfg), Tables: t})
+	fitter, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -266,9 +265,4 @@ func uniformDensity(edges []float64) []lowenergy.Bin {
 		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
 	}
 	return bins
-}
-
-// setupOf returns the detector description of a simulation configuration.
-func setupOf(cfg sim.Config) setup.Setup {
-	return setup.Setup{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}
 }
