@@ -5,16 +5,9 @@ import (
 	"sort"
 	"testing"
 
-	"gonum.org/v1/gonum/stat/distuv"
-
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// chiSquareCritical is the chi-square value exceeded with probability
-// 1e-4 for dof degrees of freedom (gonum distuv.ChiSquared).
-func chiSquareCritical(dof int) float64 {
-	return distuv.ChiSquared{K: float64(dof)}.Quantile(1 - 1e-4)
-}
 
 func TestDeltaSpectrum(t *testing.T) {
 	// Sampled delta-ray energies against the spin-1/2 cross-section
@@ -29,19 +22,22 @@ func TestDeltaSpectrum(t *testing.T) {
 		for i := range edges {
 			edges[i] = cut * math.Pow(k.tmax/cut, float64(i)/nb)
 		}
-		counts := make([]float64, nb)
+		counts := make([]int, nb)
 		for i := 0; i < n; i++ {
 			x := sampleDeltaEnergy(k, cut, rng)
 			j := sort.SearchFloat64s(edges, x) - 1
 			counts[j]++
 		}
 		total := p.deltaSigmaOf(k, cut)
-		var chi2 float64
-		for j := range counts {
-			want := n * integrateLog(func(x float64) float64 { return deltaSpectrum(p, ekin, x) }, edges[j], edges[j+1]) / total
-			chi2 += (counts[j] - want) * (counts[j] - want) / want
+		want := make([]float64, nb)
+		for j := range want {
+			want[j] = n * integrateLog(func(x float64) float64 { return deltaSpectrum(p, ekin, x) }, edges[j], edges[j+1]) / total
 		}
-		if crit := chiSquareCritical(nb - 1); chi2 > crit {
+		chi2, dof, err := resolution.ChiSquare(counts, want, 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if crit := resolution.ChiSquareCritical(dof, 1e-4); chi2 > crit {
 			t.Errorf("T=%g: delta spectrum chi2 = %.1f above %.1f", ekin, chi2, crit)
 		}
 	}
