@@ -11,24 +11,15 @@ import (
 	"github.com/conelight/conelight/sim/heavy"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
-type ball struct{ r float64 }
-
-func (b ball) Contains(p r3.Vector) bool { return p.Norm() < b.r }
-
-type slab struct{ thick float64 }
-
-func (s slab) Contains(p r3.Vector) bool { return p.Z >= 0 && p.Z < s.thick }
-
-type recordSink struct {
-	segs int
-	secs []phys.Particle
-}
-
-func (r *recordSink) Segment(phys.Segment)                     { r.segs++ }
-func (r *recordSink) Secondary(p phys.Particle)                { r.secs = append(r.secs, p) }
-func (r *recordSink) Deposit(r3.Vector, float64, float64, int) {}
+// The test volumes and sinks are those of phystest.
+type (
+	ball       = phystest.Ball
+	slab       = phystest.Slab
+	recordSink = phystest.RecordSink
+)
 
 func newPhysics(t testing.TB, cfg heavy.Config) *Physics {
 	t.Helper()
@@ -107,14 +98,14 @@ func TestPiPlusDecayAtRest(t *testing.T) {
 	var electrons int
 	for i := 0; i < n; i++ {
 		var s recordSink
-		tr, err := p.TrackPion(along(phys.PionPlusCode, 0), ball{10}, rng, &s)
+		tr, err := p.TrackPion(along(phys.PionPlusCode, 0), ball{R: 10}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != phys.StoppedDecayed || len(s.secs) != 1 {
-			t.Fatalf("pi+ at rest: fate %v, %d products", tr.Fate, len(s.secs))
+		if tr.Fate != phys.StoppedDecayed || len(s.Secs) != 1 {
+			t.Fatalf("pi+ at rest: fate %v, %d products", tr.Fate, len(s.Secs))
 		}
-		mu := s.secs[0]
+		mu := s.Secs[0]
 		switch mu.PDG {
 		case phys.MuonPlus:
 			if math.Abs(mu.Ekin-tmu) > 1e-9 {
@@ -144,15 +135,15 @@ func TestPiMinusCapturedAtRest(t *testing.T) {
 	rng := newRNG(3, 4)
 	for i := 0; i < 200; i++ {
 		var s recordSink
-		tr, err := p.TrackPion(along(phys.PionMinusCode, 0), ball{10}, rng, &s)
+		tr, err := p.TrackPion(along(phys.PionMinusCode, 0), ball{R: 10}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != phys.StoppedCaptured || tr.Channel != Absorption || len(s.secs) != 2 {
-			t.Fatalf("pi- at rest: fate %v, channel %v, %d products", tr.Fate, tr.Channel, len(s.secs))
+		if tr.Fate != phys.StoppedCaptured || tr.Channel != Absorption || len(s.Secs) != 2 {
+			t.Fatalf("pi- at rest: fate %v, channel %v, %d products", tr.Fate, tr.Channel, len(s.Secs))
 		}
 		sum := 0.0
-		for _, q := range s.secs {
+		for _, q := range s.Secs {
 			if q.PDG != phys.NeutronCode {
 				t.Fatalf("product %+v", q)
 			}
@@ -194,7 +185,7 @@ func TestPionInteractionLengthAndChannels(t *testing.T) {
 		var nO int
 		for j := 0; j < n; j++ {
 			var s recordSink
-			tr, err := p.TrackPion(along(phys.PionPlusCode, ekin), slab{thick}, rng, &s)
+			tr, err := p.TrackPion(along(phys.PionPlusCode, ekin), slab{Thick: thick}, rng, &s)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -209,7 +200,7 @@ func TestPionInteractionLengthAndChannels(t *testing.T) {
 				onO[tr.Channel]++
 				nO++
 			}
-			checkProducts(t, tr.Channel, s.secs)
+			checkProducts(t, tr.Channel, s.Secs)
 		}
 		sPiO, _ := p.Pion(false).StoppingPower(ekin)
 		mid := ekin - sPiO*thick/2
@@ -291,7 +282,7 @@ func TestPiZeroDecay(t *testing.T) {
 		var s recordSink
 		_, dz := DecayPiZero(along(phys.NeutralPionCode, ekin), rng, &s)
 		sum := 0.0
-		for _, q := range s.secs {
+		for _, q := range s.Secs {
 			sum += q.Ekin
 			if q.PDG == phys.Electron || q.PDG == phys.Positron {
 				sum += phys.ElectronMass
@@ -304,7 +295,7 @@ func TestPiZeroDecay(t *testing.T) {
 			dalitz++
 			continue
 		}
-		a, b := s.secs[0], s.secs[1]
+		a, b := s.Secs[0], s.Secs[1]
 		m2 := 2 * a.Ekin * b.Ekin * (1 - a.Dir.Dot(b.Dir))
 		if math.Abs(math.Sqrt(m2)/phys.PionZeroMass-1) > 1e-6 {
 			t.Fatalf("photon pair mass %.6f", math.Sqrt(m2))
@@ -347,7 +338,7 @@ func TestPiZeroOpeningAngle(t *testing.T) {
 		if _, dz := DecayPiZero(along(phys.NeutralPionCode, ekin), rng, &s); dz {
 			continue
 		}
-		a := math.Acos(s.secs[0].Dir.Dot(s.secs[1].Dir))
+		a := math.Acos(s.Secs[0].Dir.Dot(s.Secs[1].Dir))
 		if a < thMin*(1-1e-9) {
 			t.Fatalf("opening angle %g below the minimum %g", a, thMin)
 		}
@@ -382,28 +373,21 @@ func TestPionCherenkovThreshold(t *testing.T) {
 		mom   float64
 		light bool
 	}{{150, false}, {250, true}} {
-		var s segSink
-		_, err := p.TrackPion(along(phys.PionPlusCode, phys.KineticFromMomentum(c.mom, phys.PionMass)), ball{1e4}, rng, &s)
+		var s recordSink
+		_, err := p.TrackPion(along(phys.PionPlusCode, phys.KineticFromMomentum(c.mom, phys.PionMass)), ball{R: 1e4}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if (len(s.segs) > 0) != c.light {
-			t.Errorf("%g MeV/c: %d segments", c.mom, len(s.segs))
+		if (len(s.Segs) > 0) != c.light {
+			t.Errorf("%g MeV/c: %d segments", c.mom, len(s.Segs))
 		}
-		for _, g := range s.segs {
+		for _, g := range s.Segs {
 			if g.Track == 1 && g.Beta0 <= 1/n {
 				t.Errorf("segment starting at beta %g below 1/n", g.Beta0)
 			}
 		}
 	}
 }
-
-type segSink struct {
-	recordSink
-	segs []phys.Segment
-}
-
-func (s *segSink) Segment(g phys.Segment) { s.segs = append(s.segs, g) }
 
 func TestInteractionEnergyBalance(t *testing.T) {
 	// Energy conservation of the nuclear model: the products of a
@@ -457,7 +441,7 @@ func TestProtonNuclearInteractionProbability(t *testing.T) {
 	var onO int
 	for i := 0; i < n; i++ {
 		var s recordSink
-		tr, err := p.TrackProton(along(phys.ProtonCode, t0), ball{1e4}, rng, &s)
+		tr, err := p.TrackProton(along(phys.ProtonCode, t0), ball{R: 1e4}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}

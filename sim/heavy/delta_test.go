@@ -7,6 +7,7 @@ import (
 
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
 func TestDeltaSpectrum(t *testing.T) {
@@ -14,7 +15,7 @@ func TestDeltaSpectrum(t *testing.T) {
 	// (PDG Review, "Passage of particles through matter"), integrated per
 	// bin by quadrature; chi-square test at alpha = 1e-4.
 	p := newWater(t, Config{})
-	rng := newRNG(11, 12)
+	rng := phystest.NewRNG(11, 12)
 	for _, ekin := range []float64{300, 1e4} {
 		k := p.kin(ekin)
 		const cut, nb, n = 1.0, 30, 100000
@@ -49,7 +50,7 @@ func TestDeltaKinematics(t *testing.T) {
 	// vector conservation, its magnitude equals sqrt((E-T)^2 - m^2) from
 	// energy conservation (independent two-body relation).
 	p := newWater(t, Config{})
-	rng := newRNG(13, 14)
+	rng := phystest.NewRNG(13, 14)
 	for _, ekin := range []float64{60, 200, 1000, 1e4, 1e6} {
 		k := p.kin(ekin)
 		dir := phys.Deflect(muonAlongZ(13, 0).Dir, 0.3, 1)
@@ -72,7 +73,7 @@ func TestSampleGammaMoments(t *testing.T) {
 	// Gamma(a, 1) has mean a and variance a; the standard error of the
 	// sample mean is sqrt(a/n) and of the sample variance
 	// sqrt((mu4 - sigma^4)/n) with mu4 = 3a^2 + 6a. Five of them allowed.
-	rng := newRNG(15, 16)
+	rng := phystest.NewRNG(15, 16)
 	const n = 100000
 	x := make([]float64, n)
 	for _, a := range []float64{0.2, 1, 4.5, 300} {

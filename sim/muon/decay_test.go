@@ -8,6 +8,7 @@ import (
 
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
 func TestMichelEndpoint(t *testing.T) {
@@ -21,7 +22,7 @@ func TestMichelSpectrum(t *testing.T) {
 	// Sampled x against the Michel spectrum x^2 (3 - 2x) (V-A, rho = 3/4),
 	// cumulative G(x) = 2x^3 - x^4 normalized on [m_e/W, 1]; chi-square at
 	// alpha = 1e-4 with the critical value from gonum distuv.ChiSquared.
-	rng := newRNG(21, 22)
+	rng := phystest.NewRNG(21, 22)
 	const nb, n = 40, 200000
 	counts := make([]int, nb)
 	for i := 0; i < n; i++ {
@@ -53,8 +54,8 @@ func TestBoostedDecayInvariant(t *testing.T) {
 	for _, ekin := range []float64{10, 300, 5000} {
 		k := p.Kinematics(ekin)
 		dir := r3.Vector{X: 0.6, Y: 0, Z: 0.8}
-		eLab, dLab := MichelElectron(k, dir, newRNG(23, 24))
-		eRest, _ := MichelElectron(p.Kinematics(0), dir, newRNG(23, 24))
+		eLab, dLab := MichelElectron(k, dir, phystest.NewRNG(23, 24))
+		eRest, _ := MichelElectron(p.Kinematics(0), dir, phystest.NewRNG(23, 24))
 		const me = phys.ElectronMass
 		etot := eLab + me
 		pLab := math.Sqrt(etot*etot - me*me)
@@ -87,14 +88,14 @@ func TestDecayAtRest(t *testing.T) {
 		tau  float64
 		ePDG int
 	}{{phys.MuonPlus, phys.MuonLifetime, phys.Positron}, {phys.MuonMinus, OxygenLifetime, phys.Electron}} {
-		rng := newRNG(25, uint64(c.pdg+100))
+		rng := phystest.NewRNG(25, uint64(c.pdg+100))
 		var sum float64
 		var captured int
 		var sink countSink
 		for i := 0; i < n; i++ {
 			part := muonAlongZ(c.pdg, 0)
 			part.Time = 7
-			tr, err := p.Track(part, ball{10}, rng, &sink)
+			tr, err := p.Track(part, ball{R: 10}, rng, &sink)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -116,8 +117,8 @@ func TestDecayAtRest(t *testing.T) {
 				t.Fatalf("muon at rest moved: %+v", tr)
 			}
 		}
-		if sink.segments != 0 || sink.deposits != 0 {
-			t.Errorf("muon at rest reported %d segments, %d deposits", sink.segments, sink.deposits)
+		if sink.Segments != 0 || sink.Deposits != 0 {
+			t.Errorf("muon at rest reported %d segments, %d deposits", sink.Segments, sink.Deposits)
 		}
 		if mean := sum / n; math.Abs(mean-c.tau) > 5*c.tau/math.Sqrt(n) {
 			t.Errorf("PDG %d: mean decay time %.1f ns, want %.1f", c.pdg, mean, c.tau)
@@ -138,7 +139,7 @@ func TestDecayInFlightElectron(t *testing.T) {
 	// momentum averages to zero along the boost); standard error from the
 	// sample. The decay length of the transport is checked in sim/heavy.
 	p := newWater(t, Config{})
-	rng := newRNG(27, 28)
+	rng := phystest.NewRNG(27, 28)
 	const n = 4000
 	k := p.Kinematics(1000)
 	energies := make([]float64, n)
@@ -156,10 +157,10 @@ func TestDecayInFlight(t *testing.T) {
 	// Muons of 300 MeV decaying in flight in a large sphere: the decay
 	// product is an electron (mu-) at the end point and time of the track.
 	p := newWater(t, Config{})
-	rng := newRNG(29, 30)
+	rng := phystest.NewRNG(29, 30)
 	var seen int
 	for i := 0; i < 3000 && seen < 5; i++ {
-		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 300), ball{1e4}, rng, &countSink{})
+		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 300), ball{R: 1e4}, rng, &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
