@@ -19,6 +19,8 @@ func TestNewErrors(t *testing.T) {
 		{func(c *Config) { c.Liner.Reflectivity = 3 }, "Reflectivity"},
 		{func(c *Config) { c.Trigger.Threshold = 0 }, "Trigger"},
 		{func(c *Config) { c.Workers = -2 }, "Workers = -2"},
+		{func(c *Config) { c.Dead = []int{3, 1 << 20} }, "Dead[1] = 1048576"},
+		{func(c *Config) { c.Dead = []int{3, 3} }, "Dead[1] = 3"},
 	}
 	for _, c := range cases {
 		cfg, err := DemoConfig(1)

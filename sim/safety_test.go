@@ -105,7 +105,7 @@ func TestEventRefusesBadPrimaries(t *testing.T) {
 		{"NaN energy", "Ekin = NaN", func(p *phys.Particle) { p.Ekin = nan }},
 		{"Inf energy", "Ekin = +Inf", func(p *phys.Particle) { p.Ekin = inf }},
 		{"negative energy", "Ekin = -1", func(p *phys.Particle) { p.Ekin = -1 }},
-		{"energy above the tables", "Ekin", func(p *phys.Particle) { p.Ekin = 10 * em.MaxEnergy }},
+		{"energy above the tables", "Ekin", func(p *phys.Particle) { p.Ekin = 10 * em.MaxEkin }},
 		{"muon above the tables", "Ekin", func(p *phys.Particle) { p.PDG, p.Ekin = phys.MuonMinus, 10*muon.MaxEnergy }},
 		{"NaN position", "Pos", func(p *phys.Particle) { p.Pos.X = nan }},
 		{"outside the tank", "outside", func(p *phys.Particle) { p.Pos.Z = 1e4 }},

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 
 	"github.com/golang/geo/r3"
 
@@ -14,7 +15,6 @@ import (
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/muon"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/photon"
 	"github.com/conelight/conelight/sim/phys"
 	"github.com/conelight/conelight/sim/transport"
@@ -25,6 +25,7 @@ import (
 // Run gives each worker its own.
 type Simulator struct {
 	cfg      Config
+	dead     []bool // by sensor; nil when no sensor is dead
 	physics  *transport.Physics
 	emitter  *cherenkov.Emitter
 	tracer   *photon.Tracer
@@ -35,13 +36,6 @@ type Simulator struct {
 // New checks cfg and builds the tables of the transport codes, the
 // Cherenkov emitter and the photon tracer.
 func New(cfg Config) (*Simulator, error) {
-	if cfg.Water == nil {
-		w, err := optics.NewWater(optics.DefaultWaterConfig())
-		if err != nil {
-			return nil, err
-		}
-		cfg.Water = w
-	}
 	if err := cfg.validate(); err != nil {
 		return nil, err
 	}
@@ -76,6 +70,8 @@ func New(cfg Config) (*Simulator, error) {
 		muCfg = muon.DefaultConfig()
 		muCfg.ThresholdIndex = nmax
 	}
+	// Charged particles move through water as a medium (material.Water:
+	// stopping powers, radiation length), not through its optics.
 	physics, err := transport.New(material.Water(), emCfg, muCfg)
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
@@ -85,6 +81,13 @@ func New(cfg Config) (*Simulator, error) {
 		return nil, fmt.Errorf("sim: %w", err)
 	}
 	s := &Simulator{cfg: cfg, physics: physics, emitter: emitter, tracer: tracer, prescale: prescale}
+	s.cfg.Dead = append([]int(nil), cfg.Dead...)
+	if len(cfg.Dead) > 0 {
+		s.dead = make([]bool, cfg.Detector.NumSensors())
+		for _, d := range cfg.Dead {
+			s.dead[d] = true
+		}
+	}
 	s.cfg.EM, s.cfg.Muon = emCfg, muCfg
 	s.scratch = make(chan *worker, cfg.Workers)
 	return s, nil
@@ -209,7 +212,12 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		}
 	}
 	tt.Photons = w.traced
+	nLive := 0
 	for _, pe := range w.pes {
+		if s.isDead(pe.Sensor) {
+			continue
+		}
+		nLive++
 		switch pe.Origin {
 		case pmt.Direct:
 			tt.PEDirect++
@@ -219,7 +227,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 			tt.PEReflected++
 		}
 	}
-	tt.Photoelectrons = len(w.pes)
+	tt.Photoelectrons = nLive
 	// Dark pulses over the span of the signal plus the readout margins,
 	// so that any trigger found has dark noise over its whole window.
 	t0, t1 := primaries[0].Time, primaries[0].Time
@@ -235,11 +243,21 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		if err != nil {
 			return nil, fmt.Errorf("sim: event %d: %w", number, err)
 		}
-		tt.DarkPE = len(w.pes) - n
+		for _, pe := range w.pes[n:] {
+			if !s.isDead(pe.Sensor) {
+				tt.DarkPE++
+			}
+		}
 	}
+	// Dead sensors are dropped after digitization rather than before, so
+	// that the event's random stream is drawn the same with or without
+	// them: the live sensors' hits do not depend on which sensors are dead.
 	w.hits, err = w.dig.Digitize(w.pes, s.cfg.Detector.NumSensors(), rng, w.hits[:0])
 	if err != nil {
 		return nil, fmt.Errorf("sim: event %d: %w", number, err)
+	}
+	if s.dead != nil {
+		w.hits = slices.DeleteFunc(w.hits, func(h pmt.Hit) bool { return s.dead[h.Sensor] })
 	}
 	t, ok, err := tg.Find(w.hits)
 	if err != nil {
@@ -261,6 +279,9 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 	return ev, nil
 }
 
+// isDead reports whether sensor i is out of service.
+func (s *Simulator) isDead(i int) bool { return s.dead != nil && s.dead[i] }
+
 // exitTolerance (cm) is how close to the wall a track's last point must be
 // to count as having left the tank.
 const exitTolerance = 0.1
@@ -268,10 +289,8 @@ const exitTolerance = 0.1
 // fate returns a primary's fate from its transport record.
 func (w *worker) fate(pr transport.Primary) phys.Fate {
 	switch {
-	case pr.Skipped:
-		return phys.NoFate
-	case pr.MuonFate != phys.NoFate:
-		return pr.MuonFate
+	case pr.Fate != phys.NoFate:
+		return pr.Fate
 	case pr.Particle.PDG == phys.Gamma:
 		return phys.Interacted
 	}

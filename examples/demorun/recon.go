@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"path/filepath"
@@ -14,6 +13,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/parallel"
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -22,10 +23,6 @@ import (
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// lowEnergyMax is the highest energy (MeV) fitted with the low-energy
-// fitter, the top of its tables' range (package fit).
-const lowEnergyMax = 100
 
 // minSummary is the fewest fitted events resolution.Summarize accepts.
 const minSummary = 5
@@ -74,13 +71,16 @@ func isElectromagnetic(pdg int) bool {
 // reconstruct fits every sample, prints the resolution table and writes
 // the figures.
 func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg sim.Config, samples []*sample) error {
-	low, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	low, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		return err
 	}
+	// Electromagnetic samples up to the top of the low-energy fitter's
+	// calibration go to it; below its bottom nothing fits better.
+	_, lowEnergyMax := low.EkinRange()
 	var rf *ring.Fitter
 	if o.ringFit > 0 {
-		if rf, err = ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}); err != nil {
+		if rf, err = ring.New(ring.Config{Setup: cfg.Setup}); err != nil {
 			return err
 		}
 	}
@@ -107,6 +107,10 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	if err != nil {
 		return err
 	}
+	if len(files) == 0 {
+		fmt.Fprintln(stdout, "\nno figures: no sample was reconstructed")
+		return nil
+	}
 	fmt.Fprintf(stdout, "\nfigures: %s\n", strings.Join(files, " "))
 	return nil
 }
@@ -119,7 +123,7 @@ func hypothesisOf(pdg int) ring.Hypothesis {
 }
 
 func inRingRange(rf *ring.Fitter, sm *sample) bool {
-	lo, hi := rf.EnergyRange(hypothesisOf(sm.pdg))
+	lo, hi := rf.EkinRange(hypothesisOf(sm.pdg))
 	return sm.energy >= lo && sm.energy <= hi
 }
 
@@ -141,24 +145,24 @@ func fitLow(ctx context.Context, f *lowenergy.Fitter, sm *sample, n float64) err
 		if errs[i] != nil {
 			return fmt.Errorf("%s %g MeV event %d: %w", sm.name, sm.energy, sm.events[i].Number, errs[i])
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			continue
 		}
 		tr := truthOf(sm.events[i])
-		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Vertex, Dir: r.Dir, Energy: r.Energy})
+		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Track.Vertex, Dir: r.Track.Dir, Energy: r.Track.Ekin})
 		sm.truth = append(sm.truth, tr)
-		d := r.Vertex.Sub(tr.Vertex)
-		for _, c := range [][2]float64{{d.X, r.VertexErr.X}, {d.Y, r.VertexErr.Y}, {d.Z, r.VertexErr.Z}} {
+		d := r.Track.Vertex.Sub(tr.Vertex)
+		for _, c := range [][2]float64{{d.X, r.Errors.Vertex.X}, {d.Y, r.Errors.Vertex.Y}, {d.Z, r.Errors.Vertex.Z}} {
 			if c[1] > 0 {
 				sm.vertexPull = append(sm.vertexPull, c[0]/c[1])
 			}
 		}
-		if r.EnergyErr > 0 {
-			sm.energyPull = append(sm.energyPull, (r.Energy-tr.Energy)/r.EnergyErr)
+		if r.Errors.Ekin > 0 {
+			sm.energyPull = append(sm.energyPull, (r.Track.Ekin-tr.Energy)/r.Errors.Ekin)
 		}
 		if sm.example == nil {
 			sm.example = sm.events[i]
-			sm.exampleTrack = track{vertex: r.Vertex, dir: r.Dir, time: r.Time, cos: 1 / n, label: "low-energy fit"}
+			sm.exampleTrack = track{vertex: r.Track.Vertex, dir: r.Track.Dir, time: r.Track.Time, cos: 1 / n, label: "low-energy fit"}
 		}
 	}
 	return nil
@@ -174,8 +178,8 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 	if !o.quiet {
 		fmt.Fprintf(stderr, "\r%-20s 0/%d events ", label, k)
 	}
-	if err := parallel.Each(ctx, k, rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(sm.events[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, k, func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(sm.events[i].Hits, ring.Window{})
 		mu.Lock()
 		done++
 		if !o.quiet {
@@ -206,7 +210,7 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 		if want == ring.Muon {
 			r = &rec.Muon
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			continue
 		}
 		if r.Exiting() {

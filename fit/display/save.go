@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -13,6 +12,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 // PNGDPI is the resolution of PNG files: a figure of width w (vg.Length)
@@ -95,29 +96,10 @@ func Write(w io.Writer, f Figure, width, height vg.Length, format Format) error 
 // Save writes f to path as PNG or SVG (by the extension) atomically: the
 // figure is written to a temporary file in the same directory, which is
 // renamed to path when complete; on error nothing is left under path.
-func Save(path string, f Figure, width, height vg.Length) (err error) {
+func Save(path string, f Figure, width, height vg.Length) error {
 	format, err := FormatOf(path)
 	if err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if err = tmp.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = Write(tmp, f, width, height, format); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+	return safefile.Write(path, func(w io.Writer) error { return Write(w, f, width, height, format) })
 }

@@ -1,6 +1,7 @@
 // Package cherenkov emits Cherenkov light from the straight charged-track
 // segments (phys.Segment) that transport reports: the Frank-Tamm yield with
-// the dispersion of water over a wavelength band, the emission spectrum at
+// the dispersion of the water's optics (an optics.Water, the same the
+// photon tracing uses) over a wavelength band, the emission spectrum at
 // the local speed, and photons on the cone cos theta = 1/(n beta) about
 // the step direction.
 //

@@ -9,8 +9,8 @@ import (
 
 // checkEnergy validates an energy argument of the reference functions.
 func checkEnergy(name string, e float64) error {
-	if !(e >= gridMin && e <= MaxEnergy) {
-		return fmt.Errorf("em: %s = %g MeV outside the model range [%g, %g] MeV", name, e, gridMin, MaxEnergy)
+	if !(e >= gridMin && e <= MaxEkin) {
+		return fmt.Errorf("em: %s = %g MeV outside the model range [%g, %g] MeV", name, e, gridMin, MaxEkin)
 	}
 	return nil
 }

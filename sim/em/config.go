@@ -8,11 +8,12 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// MaxEnergy is the upper end of the model range (MeV): the tables stop
+// MaxEkin is the upper end of the model range (MeV; kinetic energy of
+// electrons and positrons, the energy of photons): the tables stop
 // there, and above it the LPM suppression of bremsstrahlung and pair
 // production in water (onset at several TeV) would still be negligible,
 // but nothing here has been checked beyond it.
-const MaxEnergy = 1e5
+const MaxEkin = 1e5
 
 // minCut is the lowest cut or tracking energy accepted (MeV). Below about
 // 10 keV the Bethe theory of the collision stopping power with I = 75 eV
@@ -92,10 +93,10 @@ func ConfigForIndex(n float64) (Config, error) {
 }
 
 // ComptonThreshold returns the photon energy k (MeV) whose Compton edge,
-// the largest electron kinetic energy 2k^2/(m + 2k), equals tkin (MeV):
-// k = (tkin/2)(1 + sqrt(1 + 2m/tkin)).
-func ComptonThreshold(tkin float64) float64 {
-	return tkin / 2 * (1 + math.Sqrt(1+2*phys.ElectronMass/tkin))
+// the largest electron kinetic energy 2k^2/(m + 2k), equals ekin (MeV):
+// k = (ekin/2)(1 + sqrt(1 + 2m/ekin)).
+func ComptonThreshold(ekin float64) float64 {
+	return ekin / 2 * (1 + math.Sqrt(1+2*phys.ElectronMass/ekin))
 }
 
 // Validate reports the first field that is out of range.
@@ -111,8 +112,8 @@ func (c Config) Validate() error {
 		{"BremsCut", c.BremsCut}, {"PhotonCut", c.PhotonCut},
 	}
 	for _, cut := range cuts {
-		if !(cut.v >= minCut && cut.v <= MaxEnergy/10) {
-			return fmt.Errorf("em: Config.%s = %g MeV must lie in [%g, %g] MeV", cut.name, cut.v, minCut, MaxEnergy/10)
+		if !(cut.v >= minCut && cut.v <= MaxEkin/10) {
+			return fmt.Errorf("em: Config.%s = %g MeV must lie in [%g, %g] MeV", cut.name, cut.v, minCut, MaxEkin/10)
 		}
 	}
 	if !(c.MaxStep > 0) || math.IsInf(c.MaxStep, 0) {

@@ -1,6 +1,9 @@
 // Package em is a condensed-history Monte Carlo of electrons, positrons
 // and photons in water, down to the Cherenkov threshold: the source of the
-// charged-track segments that the Cherenkov emitter turns into light.
+// charged-track segments that the Cherenkov emitter turns into light. The
+// water here is the medium of sim/material.Water (density, electron
+// density, mean excitation energy, radiation length), not its optics
+// (optics.Water, which the Cherenkov emitter and photon tracing use).
 //
 // Units: cm, ns, MeV; stopping powers in MeV cm^2/g, ranges in g/cm^2,
 // attenuation coefficients in cm^2/g. Particles by PDG code (11 e-, -11

@@ -11,7 +11,7 @@ import (
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// Energy grid of the tables: log-spaced from gridMin to MaxEnergy (MeV),
+// Energy grid of the tables: log-spaced from gridMin to MaxEkin (MeV),
 // gridPerDecade points per decade, interpolated linearly in ln E (a 2.3%
 // spacing: the interpolation error of the smooth tables is below 1e-4).
 const (
@@ -86,7 +86,7 @@ func New(m material.Medium, cfg Config) (*Physics, error) {
 	p.bremsMax = bremsShapeMax(p.atoms)
 	p.lnMin = math.Log(gridMin)
 	p.invStep = gridPerDecade / math.Ln10
-	p.n = int(math.Round(math.Log10(MaxEnergy/gridMin)*gridPerDecade)) + 1
+	p.n = int(math.Round(math.Log10(MaxEkin/gridMin)*gridPerDecade)) + 1
 	p.buildBrems()
 	p.eminus = p.buildCharged(false)
 	p.eplus = p.buildCharged(true)

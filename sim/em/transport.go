@@ -34,8 +34,8 @@ func (p *Physics) check(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 	default:
 		return fmt.Errorf("em: Particle.PDG = %d: only e- (11), e+ (-11) and gamma (22) are transported", part.PDG)
 	}
-	if !(part.Ekin >= 0 && part.Ekin <= MaxEnergy) {
-		return fmt.Errorf("em: Particle.Ekin = %g MeV must lie in [0, %g] MeV", part.Ekin, MaxEnergy)
+	if !(part.Ekin >= 0 && part.Ekin <= MaxEkin) {
+		return fmt.Errorf("em: Particle.Ekin = %g MeV must lie in [0, %g] MeV", part.Ekin, MaxEkin)
 	}
 	if !finite(part.Pos) {
 		return fmt.Errorf("em: Particle.Pos = %v must be finite", part.Pos)

@@ -3,6 +3,7 @@ package phys
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -92,7 +93,14 @@ func TestParsePDG(t *testing.T) {
 			t.Errorf("ParsePDG(%q): error %v should list the known names", bad, err)
 		}
 	}
-	if got := PDGName(211); got != "PDG 211" {
-		t.Errorf("PDGName(211) = %q", got)
+	if got := PDGName(0); got != "PDG 0" { // 0 is no particle
+		t.Errorf("PDGName(0) = %q", got)
+	}
+	// KnownPDG lists every code Lookup knows (scanning the codes of
+	// elementary particles and hadrons, |code| < 10^4).
+	for pdg := -10000; pdg <= 10000; pdg++ {
+		if _, err := Lookup(pdg); err == nil && !slices.Contains(KnownPDG(), pdg) {
+			t.Errorf("Lookup knows %d, KnownPDG does not list it", pdg)
+		}
 	}
 }

@@ -17,6 +17,7 @@ import (
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // LargeConfig is the large reference tank lined at 40% coverage with the
@@ -26,7 +27,7 @@ func LargeConfig(seed uint64) (sim.Config, error) {
 	cfg, err := sim.LargeConfig(seed)
 	// The embedded large-tank tables were made with the default 10-hit
 	// trigger, not sim.LargeConfig's 25 hits; keep them reproducible.
-	cfg.Trigger = sim.DefaultTrigger()
+	cfg.Trigger = setup.DefaultTrigger()
 	return cfg, err
 }
 
