@@ -153,7 +153,15 @@ func (b Binomial) Percent() string {
 	case LowerLimit:
 		return fmt.Sprintf("%d/%d > %.2g %% (%s)", b.K, b.N, 100*b.Lo, cl)
 	}
-	return fmt.Sprintf("%d/%d = %.2g +%.2g/-%.2g %% (%s, Clopper-Pearson)", b.K, b.N, 100*b.Value, 100*(b.Hi-b.Value), 100*(b.Value-b.Lo), cl)
+	// One number of decimals for the value and both errors, giving the
+	// smaller error one or two significant digits (from 3 up one, below
+	// two, in the spirit of the PDG rounding rule).
+	up, down := 100*(b.Hi-b.Value), 100*(b.Value-b.Lo)
+	d := 0
+	if e := math.Min(up, down); e > 0 {
+		d = max(0, min(3, int(math.Ceil(-math.Log10(e/3)))))
+	}
+	return fmt.Sprintf("%d/%d = %.*f +%.*f/-%.*f %% (%s, Clopper-Pearson)", b.K, b.N, d, 100*b.Value, d, up, d, down, cl)
 }
 
 // String formats b as a fraction: "3/16 = 0.19 [0.10, 0.32] (68.3% CL

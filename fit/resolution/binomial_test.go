@@ -196,3 +196,23 @@ func TestProportion(t *testing.T) {
 		t.Errorf("CL 1 accepted: %v", err)
 	}
 }
+
+// The value and both errors of a central interval are written with one
+// number of decimals.
+func TestPercentDecimals(t *testing.T) {
+	for _, c := range []struct {
+		k, n int
+		want string
+	}{
+		{15, 16, "15/16 = 94 +5/-13 % (68.3% CL, Clopper-Pearson)"},
+		{500, 1000, "500/1000 = 50.0 +1.6/-1.6 % (68.3% CL, Clopper-Pearson)"},
+	} {
+		b, err := Proportion(c.k, c.n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := b.Percent(); got != c.want {
+			t.Errorf("Proportion(%d, %d).Percent() = %q, want %q", c.k, c.n, got, c.want)
+		}
+	}
+}
