@@ -492,6 +492,15 @@ type quantity struct {
 	point                 func(p point, x float64) (display.Point, bool)
 }
 
+// quantileOf draws a 68% quantile with its asymmetric order-statistic
+// bounds.
+func quantileOf(f func(resolution.Summary) resolution.Interval) func(point, float64) (display.Point, bool) {
+	return func(p point, x float64) (display.Point, bool) {
+		q := f(p.sum)
+		return display.Point{X: x, Y: q.Value, ErrLo: q.Value - q.Lo, ErrHi: q.Hi - q.Value}, p.fitted >= 5
+	}
+}
+
 func summaryOf(scale float64, f func(resolution.Summary) resolution.Estimate) func(point, float64) (display.Point, bool) {
 	return func(p point, x float64) (display.Point, bool) {
 		e := f(p.sum)
@@ -500,8 +509,8 @@ func summaryOf(scale float64, f func(resolution.Summary) resolution.Estimate) fu
 }
 
 var quantities = []quantity{
-	{"vertex resolution", "vertex 68% (cm)", "68% quantile of the distance to the true vertex", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
-	{"direction resolution", "direction 68% (deg)", "68% quantile of the angle to the true direction", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
+	{"vertex resolution", "vertex 68% (cm)", "68% quantile of the distance to the true vertex", quantileOf(func(s resolution.Summary) resolution.Interval { return s.Vertex68Interval })},
+	{"direction resolution", "direction 68% (deg)", "68% quantile of the angle to the true direction", quantileOf(func(s resolution.Summary) resolution.Interval { return s.Direction68Interval })},
 	{"energy resolution", "σ(ΔE/E) (%)", "σ of the Gaussian core of (E_fit - E_true)/E_true", summaryOf(100, func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
 	{"e/mu mis-identification, ring fit", "mis-identified (%)", "bars: 68.3% CL Clopper-Pearson, arrows: 90% CL limits", func(p point, x float64) (display.Point, bool) {
 		b, ok := misIDOf(p)
