@@ -1,6 +1,7 @@
 package sim
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -109,8 +110,19 @@ type worker struct {
 	pes     []pmt.Photoelectron
 	hits    []pmt.Hit
 	visible []float64
-	traced  int
-	err     error
+	// Readout scratch (readout.go): sorted signal times, their clusters,
+	// the photoelectrons of one window, the hits after the primary
+	// readout, the dark photoelectrons counted.
+	times  []float64
+	spans  []span
+	piece  []pmt.Photoelectron
+	later  []pmt.Hit
+	darkPE int
+	// The primaries' direct secondaries, for the vertex truth.
+	nPrimaries int
+	secs       []phys.Particle
+	traced     int
+	err        error
 }
 
 func (s *Simulator) newWorker() (*worker, error) {
@@ -150,8 +162,40 @@ func (w *worker) Segment(seg phys.Segment) {
 	w.pes = w.s.tracer.TraceAll(w.photons, w.rng, w.pes, nil)
 }
 
-func (w *worker) Secondary(phys.Particle)                  {}
+// Secondary keeps the secondaries made directly by a primary, the
+// candidates for the products of its decay or capture (vertices).
+func (w *worker) Secondary(p phys.Particle) {
+	if p.Parent >= 1 && p.Parent <= w.nPrimaries {
+		w.secs = append(w.secs, p)
+	}
+}
+
 func (w *worker) Deposit(r3.Vector, float64, float64, int) {}
+
+// vertices returns the decays and captures of the primaries, in time
+// order: each primary whose transport record ends in a decay or capture,
+// at its end point and decay time, with the secondaries it made there.
+// Decays and captures of secondary particles are not recorded: the
+// transport reports no fate for them.
+func (w *worker) vertices(tracks []transport.Primary) []event.Vertex {
+	var vs []event.Vertex
+	for i, pr := range tracks {
+		switch pr.Fate {
+		case phys.StoppedDecayed, phys.DecayedInFlight, phys.StoppedCaptured, phys.Captured:
+		default:
+			continue
+		}
+		v := event.Vertex{Track: i + 1, PDG: pr.Particle.PDG, Process: pr.Fate, Time: pr.DecayTime, Pos: pr.End}
+		for _, p := range w.secs {
+			if p.Parent == i+1 && p.Time == pr.DecayTime {
+				v.Products = append(v.Products, p)
+			}
+		}
+		vs = append(vs, v)
+	}
+	slices.SortStableFunc(vs, func(a, b event.Vertex) int { return cmp.Compare(a.Time, b.Time) })
+	return vs
+}
 
 // Event simulates one event with the given primaries, using the event's
 // own random stream EventStream(Seed, number). The primaries are copied.
@@ -187,6 +231,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		return nil, errors.New("sim: event has no primaries")
 	}
 	w.rng, w.err, w.traced = rng, nil, 0
+	w.nPrimaries, w.secs = len(primaries), w.secs[:0]
 	w.pes = w.pes[:0]
 	w.visible = append(w.visible[:0], make([]float64, len(primaries))...)
 	tracks, err := w.tracker.Run(primaries, s.cfg.Detector, rng, w)
@@ -212,6 +257,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		}
 	}
 	tt.Photons = w.traced
+	tt.Vertices = w.vertices(tracks)
 	nLive := 0
 	for _, pe := range w.pes {
 		if s.isDead(pe.Sensor) {
@@ -228,46 +274,8 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		}
 	}
 	tt.Photoelectrons = nLive
-	// Dark pulses over the span of the signal plus the readout margins,
-	// so that any trigger found has dark noise over its whole window.
-	t0, t1 := primaries[0].Time, primaries[0].Time
-	for _, pe := range w.pes {
-		t0, t1 = math.Min(t0, pe.Time), math.Max(t1, pe.Time)
-	}
-	tg := s.cfg.Trigger
-	t0 -= tg.PreTrigger + tg.Window
-	t1 += tg.PostTrigger
-	if !s.cfg.NoDarkNoise {
-		n := len(w.pes)
-		w.pes, err = s.cfg.Sensor.AddDark(w.pes, s.cfg.Detector.NumSensors(), t0, t1, rng)
-		if err != nil {
-			return nil, fmt.Errorf("sim: event %d: %w", number, err)
-		}
-		for _, pe := range w.pes[n:] {
-			if !s.isDead(pe.Sensor) {
-				tt.DarkPE++
-			}
-		}
-	}
-	// Dead sensors are dropped after digitization rather than before, so
-	// that the event's random stream is drawn the same with or without
-	// them: the live sensors' hits do not depend on which sensors are dead.
-	w.hits, err = w.dig.Digitize(w.pes, s.cfg.Detector.NumSensors(), rng, w.hits[:0])
-	if err != nil {
+	if err := w.readout(ev, primaries[0].Time); err != nil {
 		return nil, fmt.Errorf("sim: event %d: %w", number, err)
-	}
-	if s.dead != nil {
-		w.hits = slices.DeleteFunc(w.hits, func(h pmt.Hit) bool { return s.dead[h.Sensor] })
-	}
-	t, ok, err := tg.Find(w.hits)
-	if err != nil {
-		return nil, fmt.Errorf("sim: event %d: %w", number, err)
-	}
-	if ok {
-		tt.Triggered, tt.TriggerTime = true, t
-		ev.Hits = tg.Readout(w.hits, t, nil)
-	} else {
-		ev.Hits = append([]pmt.Hit(nil), w.hits...)
 	}
 	// The transport codes check the primaries they follow; this also
 	// catches an untracked primary (copied to the truth unfollowed) with a

@@ -63,6 +63,16 @@ type RunInfo struct {
 	// KeepUntriggered says whether events whose trigger did not fire
 	// were kept.
 	KeepUntriggered bool
+
+	// Setup is the name of the detector description (setup.Setup.Name);
+	// Dead lists the sensors out of service, by index, sorted. Empty in
+	// files of format versions 1 and 2.
+	Setup string
+	Dead  []int
+	// ExtendedWindow (ns) is the stretch after the primary trigger in
+	// which every hit was kept (Event.Extended); 0 when off and in files
+	// of format versions 1 and 2.
+	ExtendedWindow float64
 }
 
 // Span is a range of event numbers: First .. First+N-1.
@@ -133,6 +143,20 @@ func (r *RunInfo) Validate() error {
 			return fmt.Errorf("event: RunInfo.Source.Reasons[%d] = %q must be one line", i, s)
 		}
 	}
+	if strings.ContainsAny(r.Setup, "\n\r") {
+		return fmt.Errorf("event: RunInfo.Setup = %q must be one line", r.Setup)
+	}
+	if msg := badLength(len(r.Dead)); msg != "" {
+		return fmt.Errorf("event: len(RunInfo.Dead) = %s", msg)
+	}
+	for i, d := range r.Dead {
+		if d < 0 || d > math.MaxInt32 || (i > 0 && d <= r.Dead[i-1]) {
+			return fmt.Errorf("event: RunInfo.Dead[%d] = %d: want sorted, distinct sensor indices in [0, %d]", i, d, math.MaxInt32)
+		}
+	}
+	if !(r.ExtendedWindow >= 0) || math.IsInf(r.ExtendedWindow, 0) {
+		return fmt.Errorf("event: RunInfo.ExtendedWindow = %v must be non-negative and finite (ns)", r.ExtendedWindow)
+	}
 	if r.Trigger.Threshold > math.MaxInt32 {
 		return fmt.Errorf("event: RunInfo.Trigger.Threshold = %d does not fit the file's 32-bit column", r.Trigger.Threshold)
 	}
@@ -169,4 +193,12 @@ func (r *RunInfo) missing(n uint64) (Span, bool) {
 		}
 	}
 	return Span{}, false
+}
+
+// checkDead checks the dead sensors against a detector of nSensors.
+func (r *RunInfo) checkDead(nSensors int) error {
+	if n := len(r.Dead); n > 0 && r.Dead[n-1] >= nSensors {
+		return fmt.Errorf("event: RunInfo.Dead[%d] = %d outside the detector's %d sensors", n-1, r.Dead[n-1], nSensors)
+	}
+	return nil
 }
