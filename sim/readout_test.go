@@ -2,12 +2,16 @@ package sim
 
 import (
 	"math"
+	"runtime"
+	"slices"
 	"strings"
 	"testing"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 
+	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
@@ -171,5 +175,275 @@ func TestDecayElectronSubEvent(t *testing.T) {
 	t.Logf("mean life from %d sub-events: %.0f +- %.0f ns (mu- in water %.1f ns, free %.1f ns)", len(late), tau, stau, lifetimeInWater, phys.MuonLifetime)
 	if math.Abs(tau-lifetimeInWater) > 3*stau {
 		t.Errorf("mean life %.0f +- %.0f ns, want %.1f ns within 3 sigma", tau, stau, lifetimeInWater)
+	}
+}
+
+// TestNeutronCaptureSubEvent: a positron with a 5 MeV neutron (an inverse
+// beta decay-like pair) in the demo tank with a 1 ms extended window.
+// Checked: the neutron's capture is a truth vertex with its gamma; a
+// capture that triggers is a sub-event at the capture time, and no
+// sub-event lacks a capture; the extended window holds every hit up to 1
+// ms after the primary trigger: away from the captures, its hit rate is
+// the dark rate of the live sensors (Poisson error), and in the 100 ns
+// after each capture the hits exceed it.
+func TestNeutronCaptureSubEvent(t *testing.T) {
+	n := 300
+	if testing.Short() {
+		n = 100
+	}
+	const ext = 1e6 // ns
+	s := demoSim(t, 1, func(c *Config) { c.ExtendedWindow = ext })
+	cfg := s.Config()
+	tg := cfg.Trigger
+	var captures, inWindow, subs, fakes, captureHits int
+	var darkHits int
+	var darkTime float64
+	for i := range n {
+		pos := r3.Vector{X: 100, Y: -50, Z: 30}
+		ps := []phys.Particle{
+			{PDG: phys.Positron, Pos: pos, Dir: r3.Vector{Z: 1}, Ekin: 20},
+			{PDG: phys.NeutronCode, Pos: pos, Dir: r3.Vector{X: 1}, Ekin: 5},
+		}
+		ev, err := s.Event(uint64(i), ps)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !ev.Truth.Triggered {
+			t.Fatalf("event %d: the positron did not trigger", i)
+		}
+		trig := ev.Truth.TriggerTime
+		var capture *event.Vertex
+		for j := range ev.Truth.Vertices {
+			if v := &ev.Truth.Vertices[j]; v.Track == 2 && v.Process == phys.Captured {
+				capture = v
+			}
+		}
+		if capture == nil {
+			if ev.Truth.Tracks[1].Fate != phys.Exited {
+				t.Fatalf("event %d: neutron fate %v without a capture vertex", i, ev.Truth.Tracks[1].Fate)
+			}
+			continue
+		}
+		captures++
+		var gamma float64
+		for _, p := range capture.Products {
+			if p.PDG != phys.Gamma {
+				t.Fatalf("event %d: capture product PDG %d, want gammas", i, p.PDG)
+			}
+			gamma += p.Ekin
+		}
+		if gamma < 2 || gamma > 9 {
+			t.Fatalf("event %d: capture gammas carry %.3f MeV, want 2.2 (H) to 8.5 (Gd)", i, gamma)
+		}
+		for _, sub := range ev.SubEvents {
+			if dt := trig + sub.Time - capture.Time; dt > -20 && dt < 300 {
+				subs++
+			} else {
+				fakes++
+			}
+		}
+		_, end := tg.ReadoutWindow(trig)
+		if capture.Time > end+200 && capture.Time < trig+ext-200 {
+			inWindow++
+			for _, h := range ev.Extended {
+				if h.Time >= capture.Time && h.Time < capture.Time+100 {
+					captureHits++
+				}
+			}
+			// Dark hits: away from the 100 ns after the capture and the
+			// primary's light (its readout window).
+			for _, h := range ev.Extended {
+				if h.Time < capture.Time-100 || h.Time > capture.Time+1000 {
+					darkHits++
+				}
+			}
+			darkTime += trig + ext - end - 1100
+		}
+		for j, h := range ev.Extended {
+			if h.Time <= end || h.Time > trig+ext || (j > 0 && h.Time < ev.Extended[j-1].Time) {
+				t.Fatalf("event %d: extended hit %d at %.1f ns outside (%.1f, %.1f] or out of order", i, j, h.Time, end, trig+ext)
+			}
+		}
+	}
+	// Dark hits: every dark pulse is one photoelectron, a hit when its
+	// charge passes the threshold (SPE.CDF), less the pulses that fall in
+	// the gate of an earlier one on the same sensor (a fraction
+	// DarkRate*IntegrationWindow of them).
+	m := cfg.Sensor
+	live := cfg.Detector.NumSensors() - len(cfg.Dead)
+	perPulse := (1 - m.SPE.CDF(m.Threshold)) * (1 - m.DarkRate*m.IntegrationWindow*1e-9)
+	rate := float64(live) * m.DarkRate * 1e-9 * perPulse // dark hits per ns
+	wantDark := rate * darkTime
+	t.Logf("%d events: %d captures, %d inside the extended window; capture sub-events %d, others %d", n, captures, inWindow, subs, fakes)
+	t.Logf("dark hits away from captures: %d, expected %.0f +- %.0f", darkHits, wantDark, math.Sqrt(wantDark))
+	t.Logf("hits within 100 ns after the captures: %.2f per capture, dark alone %.2f", float64(captureHits)/float64(inWindow), rate*100)
+	if math.Abs(float64(darkHits)-wantDark) > 3*math.Sqrt(wantDark) {
+		t.Errorf("dark hits in the extended window %d, want %.0f +- 3 x %.0f", darkHits, wantDark, math.Sqrt(wantDark))
+	}
+	if excess := float64(captureHits) - rate*100*float64(inWindow); excess < 5*math.Sqrt(rate*100*float64(inWindow)) {
+		t.Errorf("the captures add %.0f hits over the dark ones in their 100 ns, want a clear excess", excess)
+	}
+	if subs == 0 {
+		t.Errorf("no capture gave a sub-event")
+	}
+	// Sub-events that match no capture are dark-noise triggers in the
+	// extended window. For Poisson hits of rate r the rate of hits that
+	// complete Threshold hits within Window is r P(N >= Threshold-1),
+	// N Poisson of mean r Window (the other hits in the window before a
+	// hit are Poisson, independently of it): an upper bound of the
+	// trigger rate, which counts a run of such hits once.
+	k := tg.Threshold
+	upper := rate * darkTime * (1 - distuv.Poisson{Lambda: rate * tg.Window}.CDF(float64(k-2)))
+	t.Logf("dark-noise sub-events %d, at most %.1f expected (Palm bound)", fakes, upper)
+	if float64(fakes) > upper+3*math.Sqrt(upper)+1 {
+		t.Errorf("%d sub-events match no capture, more than dark noise gives (at most %.1f)", fakes, upper)
+	}
+}
+
+// maxEventBytes bounds the memory one neutron-capture event of the large
+// tank with a 1 ms extended window allocates: the hits it keeps (about
+// 44 000 dark hits of 24 bytes, 1.1 MB) and their scratch copy, with
+// room for the rest of the event. A buffer of every dark pulse of the
+// millisecond would be about as large again; one of the photoelectrons
+// of the whole capture time at every sensor, unbounded.
+const maxEventBytes = 4 << 20
+
+// TestExtendedWindowMemory: a 20 MeV positron (the primary trigger) with
+// a 5 MeV neutron in the large tank with a 1 ms
+// extended window (dark pulses over the whole millisecond at 4 kHz on
+// every sensor) allocates less than maxEventBytes per event once the
+// worker's scratch is grown, and the photoelectron buffer never holds
+// more than one readout window's or one dark chunk's pulses.
+func TestExtendedWindowMemory(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the large tank")
+	}
+	cfg, err := LargeConfig(7)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cfg.Workers, cfg.ExtendedWindow = 1, 1e6
+	s, err := New(cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w, err := s.newWorker()
+	if err != nil {
+		t.Fatal(err)
+	}
+	neutron := []phys.Particle{
+		{PDG: phys.Positron, Pos: r3.Vector{X: 300}, Dir: r3.Vector{Z: 1}, Ekin: 20},
+		{PDG: phys.NeutronCode, Pos: r3.Vector{X: 300}, Dir: r3.Vector{Z: 1}, Ekin: 5},
+	}
+	run := func(number uint64) *event.Event {
+		ev, err := w.simulate(number, EventStream(cfg.Seed, number), neutron)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return ev
+	}
+	for i := range 3 { // grow the scratch
+		run(uint64(100 + i))
+	}
+	var before, after runtime.MemStats
+	const events = 5
+	var kept, sub, triggered int
+	runtime.ReadMemStats(&before)
+	for i := range events {
+		ev := run(uint64(i))
+		kept += len(ev.Extended) + len(ev.Hits)
+		if ev.Truth.Triggered {
+			triggered++
+		}
+		sub += len(ev.SubEvents)
+	}
+	runtime.ReadMemStats(&after)
+	perEvent := float64(after.TotalAlloc-before.TotalAlloc) / events
+	m := cfg.Sensor
+	nSensors := cfg.Detector.NumSensors()
+	darkPerChunk := float64(nSensors) * m.DarkRate * darkChunk * 1e-9
+	t.Logf("large tank, %d sensors at %g Hz, 1 ms extended window: %.0f hits kept per event, %d sub-events in %d events; %.2f MB allocated per event; photoelectron buffer %d (one dark chunk: %.0f)",
+		nSensors, m.DarkRate, float64(kept)/events, sub, events, perEvent/(1<<20), cap(w.piece), darkPerChunk)
+	if triggered != events {
+		t.Fatalf("%d of %d events triggered: the extended window was not exercised", triggered, events)
+	}
+	if perEvent > maxEventBytes {
+		t.Errorf("%.2f MB allocated per event, want at most %.2f MB", perEvent/(1<<20), float64(maxEventBytes)/(1<<20))
+	}
+	// A readout window of the neutron's own light holds far fewer dark
+	// pulses than a chunk; slices grow by at most a factor 2.
+	if lim := 4 * (darkPerChunk + 10*math.Sqrt(darkPerChunk) + float64(len(w.pes))); float64(cap(w.piece)) > lim {
+		t.Errorf("photoelectron buffer holds %d, want at most %.0f", cap(w.piece), lim)
+	}
+}
+
+// TestOneClusterReadoutUnchanged: an event whose light forms one cluster
+// is read out exactly as one readout of the whole event was before
+// sub-events existed (dark pulses over the signal span plus the margins,
+// one digitization, the first trigger's window), bit for bit: the same
+// random stream is replayed through that procedure, written out here.
+func TestOneClusterReadoutUnchanged(t *testing.T) {
+	s := demoSim(t, 1, func(c *Config) { c.KeepUntriggered = true; c.Dead = []int{3, 50} })
+	w, err := s.newWorker()
+	if err != nil {
+		t.Fatal(err)
+	}
+	cfg := s.Config()
+	tg := cfg.Trigger
+	nSensors := cfg.Detector.NumSensors()
+	single := map[int]int{}
+	for i := range 40 {
+		pdg, ekin := phys.Electron, 15.0
+		if i%2 == 1 {
+			pdg, ekin = phys.MuonPlus, 300
+		}
+		prims := []phys.Particle{{PDG: pdg, Pos: r3.Vector{X: float64(i) * 7, Z: -100}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: ekin}}
+		ev, err := w.simulate(uint64(i), EventStream(cfg.Seed, uint64(i)), prims)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(w.spans) != 1 {
+			continue
+		}
+		single[pdg]++
+		// The single readout, on a replay of the event's stream.
+		rng := EventStream(cfg.Seed, uint64(i))
+		w.rng, w.err, w.nPrimaries, w.secs = rng, nil, 1, w.secs[:0]
+		w.pes = w.pes[:0]
+		w.visible = append(w.visible[:0], 0)
+		if _, err := w.tracker.Run(prims, cfg.Detector, rng, w); err != nil {
+			t.Fatal(err)
+		}
+		t0, t1 := prims[0].Time, prims[0].Time
+		for _, pe := range w.pes {
+			t0, t1 = math.Min(t0, pe.Time), math.Max(t1, pe.Time)
+		}
+		t0 -= tg.PreTrigger + tg.Window
+		t1 += tg.PostTrigger
+		pes, err := cfg.Sensor.AddDark(slices.Clone(w.pes), nSensors, t0, t1, rng)
+		if err != nil {
+			t.Fatal(err)
+		}
+		hits, err := cfg.Sensor.Digitize(pes, nSensors, rng, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		hits = slices.DeleteFunc(hits, func(h pmt.Hit) bool { return h.Sensor == 3 || h.Sensor == 50 })
+		tt, ok, err := tg.Find(hits)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := hits
+		if ok {
+			want = tg.Readout(hits, tt, nil)
+		}
+		if ok != ev.Truth.Triggered || tt != ev.Truth.TriggerTime || !slices.Equal(want, ev.Hits) {
+			t.Errorf("event %d (PDG %d): the readout differs from the single readout (trigger %v at %v, %d hits; want %v at %v, %d hits)",
+				i, pdg, ev.Truth.Triggered, ev.Truth.TriggerTime, len(ev.Hits), ok, tt, len(want))
+		}
+	}
+	t.Logf("events of one cluster compared: %v (by PDG)", single)
+	if single[phys.Electron] < 15 || single[phys.MuonPlus] == 0 {
+		t.Errorf("too few one-cluster events compared: %v", single)
 	}
 }
