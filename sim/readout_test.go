@@ -1,7 +1,10 @@
 package sim
 
 import (
+	"context"
 	"math"
+	"path/filepath"
+	"reflect"
 	"runtime"
 	"slices"
 	"strings"
@@ -13,6 +16,7 @@ import (
 
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -445,5 +449,61 @@ func TestOneClusterReadoutUnchanged(t *testing.T) {
 	t.Logf("events of one cluster compared: %v (by PDG)", single)
 	if single[phys.Electron] < 15 || single[phys.MuonPlus] == 0 {
 		t.Errorf("too few one-cluster events compared: %v", single)
+	}
+}
+
+// TestInteractionLabPosition: the lab position and time a generator file
+// gives reach the event's interaction record; without them it stays zero.
+func TestInteractionLabPosition(t *testing.T) {
+	info := gen.Info{Neutrino: phys.MuonNeu, NeutrinoEtot: 800, HasLabPos: true,
+		LabPos: r3.Vector{X: 1e5, Y: -2e4, Z: 30}, LabTime: 1.5e9}
+	in := InteractionTruth(fileGen{isoElectrons{6}}, info)
+	if !in.HasLabPos || in.LabPos != info.LabPos || in.LabTime != info.LabTime {
+		t.Errorf("InteractionTruth lab position = %v, %v, %v; want %v, %v, true", in.LabPos, in.LabTime, in.HasLabPos, info.LabPos, info.LabTime)
+	}
+	info.HasLabPos, info.LabPos, info.LabTime = false, r3.Vector{}, 0
+	if in := InteractionTruth(fileGen{isoElectrons{6}}, info); in.HasLabPos || in.LabPos != (r3.Vector{}) || in.LabTime != 0 {
+		t.Errorf("without a lab position InteractionTruth gives %v, %v, %v", in.LabPos, in.LabTime, in.HasLabPos)
+	}
+}
+
+// TestSubEventsInFile: a run with dead sensors and an extended window
+// writes its sub-events, extended hits and vertices, the setup name, the
+// dead sensors (sorted) and the window to the event file, and reads them
+// back unchanged.
+func TestSubEventsInFile(t *testing.T) {
+	s := demoSim(t, 2, func(c *Config) { c.Dead = []int{50, 3}; c.ExtendedWindow = 2e4 })
+	g := reproGun(t, s)
+	opt := RunOptions{Count: 6}
+	want := runEvents(t, s, g, opt)
+	path := filepath.Join(t.TempDir(), "sub.root")
+	if _, err := s.WriteRun(context.Background(), g, opt, path); err != nil {
+		t.Fatal(err)
+	}
+	r, err := event.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	ri := r.Run()
+	if ri.Setup != "demo" || !slices.Equal(ri.Dead, []int{3, 50}) || ri.ExtendedWindow != 2e4 {
+		t.Errorf("run record: setup %q, dead %v, extended window %v; want demo, [3 50], 20000", ri.Setup, ri.Dead, ri.ExtendedWindow)
+	}
+	var got []*event.Event
+	for e, err := range r.Events() {
+		if err != nil {
+			t.Fatal(err)
+		}
+		got = append(got, &e)
+	}
+	var subs, ext, vtx int
+	for _, e := range want {
+		subs, ext, vtx = subs+len(e.SubEvents), ext+len(e.Extended), vtx+len(e.Truth.Vertices)
+	}
+	if subs == 0 || ext == 0 || vtx == 0 {
+		t.Fatalf("nothing to compare: %d sub-events, %d extended hits, %d vertices", subs, ext, vtx)
+	}
+	if !reflect.DeepEqual(got, want) {
+		t.Errorf("the file's events differ from the run's")
 	}
 }
