@@ -178,10 +178,14 @@ type setup struct {
 // point is the measurement at one setup.
 type point struct {
 	setup
-	reached   float64 // coverage the layout reached
-	sensors   int
-	tts       float64 // ns
-	events    int     // simulated
+	reached float64 // coverage the layout reached
+	sensors int
+	tts     float64 // ns
+	// pureWater says the point's water is pure water at 20 C; waterAtt is
+	// its attenuation length (cm) at attenuationWavelength.
+	pureWater bool
+	waterAtt  float64
+	events    int // simulated
 	triggered int
 	fitted    int // converged fits
 	sum       resolution.Summary
@@ -298,8 +302,8 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) ([]point, err
 		}
 		pts = append(pts, p)
 		att := "pure"
-		if su.attenuation > 0 {
-			att = fmt.Sprintf("%.0f", su.attenuation/100)
+		if su.attenuation > 0 || !p.pureWater {
+			att = fmt.Sprintf("%.0f", p.waterAtt/100)
 		}
 		misID := "-"
 		if b, ok := misIDOf(p); ok {
@@ -367,7 +371,9 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	}); err != nil {
 		return point{}, err
 	}
-	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det}
+	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det,
+		pureWater: cfg.Water.Config() == optics.DefaultWaterConfig(),
+		waterAtt:  1 / (1/cfg.Water.AbsorptionLength(attenuationWavelength) + 1/cfg.Water.ScatteringLength(attenuationWavelength))}
 	var fits, truth []resolution.Sample
 	add := func(ev *event.Event, tr display.Track, energy float64) {
 		pr := ev.Truth.Primaries[0]

@@ -7,7 +7,9 @@
 // part, coverage reached, water mass, the light yield per MeV of a
 // reference electron (simulated, with its standard error), the dark hits
 // expected per readout window and in the trigger window, and which
-// low-energy fitter table sets suit the detector.
+// low-energy fitter table sets suit the detector. -save writes the
+// detector as a description file in canonical form: the way to turn the
+// detector of an event file into a description.
 //
 // Without -detector it prints, for the demo or large tank and each preset
 // sensor class, the sensor counts per surface part and the coverage
@@ -28,6 +30,7 @@ import (
 	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // waterDensity is the density of liquid water at 20 C, g/cm^3 (IAPWS-95,
@@ -39,7 +42,7 @@ var usage = cli.Usage{
 	Name:    "tankreport",
 	Does:    "With -detector: checks a detector description and prints what follows from it (sensors, coverage, water mass, light yield of a reference electron, dark noise, which low-energy fitter tables suit it). Without: prints the geometry and coverage of the demo or large tank for each preset sensor class.",
 	Reads:   "the description file given by -detector, if any (and the sensor CSV it names)",
-	Writes:  "the report on standard output; optionally the layout as a sensor CSV file (-csv)",
+	Writes:  "the report on standard output; optionally the detector as a description file (-save) or a layout as a sensor CSV file (-csv)",
 	Example: "go run ./examples/tankreport -detector testdata/setup/example.toml",
 }
 
@@ -51,10 +54,11 @@ func main() {
 	events := flag.Int("events", 200, "with -detector: reference electrons simulated for the light yield (0: skip)")
 	ekin := flag.Float64("energy", 10, "with -detector: kinetic energy of the reference electron, MeV")
 	seed := flag.Uint64("seed", 1, "with -detector: seed of the reference-electron run")
+	save := flag.String("save", "", "with -detector: write the detector as a description file (canonical form; e.g. the detector of an event file)")
 	cli.Parse(usage)
 	var err error
 	if *spec != "" {
-		err = report(os.Stdout, *spec, yieldOptions{Events: *events, Ekin: *ekin, Seed: *seed})
+		err = report(os.Stdout, *spec, yieldOptions{Events: *events, Ekin: *ekin, Seed: *seed}, *save)
 	} else {
 		err = run(os.Stdout, *tankName, *coverage, *csvPath)
 	}
@@ -65,7 +69,7 @@ func main() {
 }
 
 // report loads the description spec and describes it.
-func report(w io.Writer, spec string, yo yieldOptions) error {
+func report(w io.Writer, spec string, yo yieldOptions, save string) error {
 	if yo.Events < 0 || yo.Events > maxEvents {
 		return fmt.Errorf("-events = %d outside [0, %d]", yo.Events, maxEvents)
 	}
@@ -76,7 +80,16 @@ func report(w io.Writer, spec string, yo yieldOptions) error {
 	if err != nil {
 		return err
 	}
-	return describe(w, spec, s, yo)
+	if err := describe(w, spec, s, yo); err != nil {
+		return err
+	}
+	if save != "" {
+		if err := setup.Save(save, s); err != nil {
+			return err
+		}
+		fmt.Fprintf(w, "wrote the description to %s\n", save)
+	}
+	return nil
 }
 
 // maxEvents bounds -events: the yield's standard error falls as

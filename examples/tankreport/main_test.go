@@ -43,7 +43,7 @@ func TestRunDemo(t *testing.T) {
 
 func TestReportDescription(t *testing.T) {
 	var out bytes.Buffer
-	if err := report(&out, "demo", yieldOptions{Events: 10, Ekin: 10, Seed: 1}); err != nil {
+	if err := report(&out, "demo", yieldOptions{Events: 10, Ekin: 10, Seed: 1}, ""); err != nil {
 		t.Fatal(err)
 	}
 	text := out.String()
@@ -68,11 +68,11 @@ func TestReportDescription(t *testing.T) {
 	if err := os.WriteFile(bad, []byte("[tank]\nvessel_radius_cm = 560\nvessel_height_cm = 1160\n[sensor]\npreset = \"Medium\"\n[layout]\ncoverage = 0.99\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	err = report(&out, bad, yieldOptions{Ekin: 10})
+	err = report(&out, bad, yieldOptions{Ekin: 10}, "")
 	if err == nil || !strings.Contains(err.Error(), "line 7: layout.coverage") {
 		t.Errorf("coverage beyond the tank: error %v, want one naming layout.coverage on line 7", err)
 	}
-	if err := report(&out, "demo", yieldOptions{Events: -1, Ekin: 10}); err == nil {
+	if err := report(&out, "demo", yieldOptions{Events: -1, Ekin: 10}, ""); err == nil {
 		t.Error("-events -1: no error")
 	}
 }
@@ -137,5 +137,25 @@ func TestYieldErrorPull(t *testing.T) {
 	t.Logf("pull sd %.3f, expected %.3f ± %.3f (%d runs of %d electrons)", sd, want, want/math.Sqrt(2*runs), runs, n)
 	if math.Abs(sd-want) > tol {
 		t.Errorf("pull sd %.3f, want %.3f within %.3f", sd, want, tol)
+	}
+}
+
+// -save writes the detector as a description that reads back to it.
+func TestReportSave(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "demo-copy.toml")
+	var out bytes.Buffer
+	if err := report(&out, "demo", yieldOptions{Ekin: 10}, path); err != nil {
+		t.Fatal(err)
+	}
+	got, err := setup.Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := setup.Demo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Name != "demo" || got.Detector.NumSensors() != want.Detector.NumSensors() || got.Sensor.Name != want.Sensor.Name || got.Trigger != want.Trigger {
+		t.Errorf("saved description reads back as %q, %d sensors of %q, trigger %+v", got.Name, got.Detector.NumSensors(), got.Sensor.Name, got.Trigger)
 	}
 }

@@ -153,14 +153,14 @@ func TestNeutrinoEnergyErrors(t *testing.T) {
 // mass, P = (m_n - E_b, 0) (energy-momentum conservation, PDG Review,
 // Kinematics).
 func TestNeutrinoEnergyKinematics(t *testing.T) {
-	const eb = 27.0 // binding energy of gen.OxygenFermiGas (MeV)
+	const eb = phys.OxygenBindingEnergy // MeV
 	for _, c := range []struct {
 		h    Hypothesis
 		ekin float64
 		cos  float64
 	}{{Muon, 400, 0.9}, {Electron, 600, 0.5}, {Muon, 900, 0.99}} {
 		dir := r3.Vector{X: c.cos, Y: math.Sqrt(1 - c.cos*c.cos)}
-		r := Result{Hypothesis: c.h, Track: fit.Track{Dir: dir, Ekin: c.ekin}}
+		r := Result{Hypothesis: c.h, Status: fit.Converged, Track: fit.Track{Dir: dir, Ekin: c.ekin}}
 		enu, err := NeutrinoEnergy(&r, r3.Vector{X: 2})
 		if err != nil {
 			t.Fatal(err)

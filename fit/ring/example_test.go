@@ -10,6 +10,7 @@ import (
 	"github.com/conelight/conelight/fit/ring"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // Example simulates a 600 MeV/c muon in the demo tank and reconstructs it
@@ -48,4 +49,27 @@ func Example() {
 	// converged: true
 	// momentum within 10%: true
 	// vertex within 50 cm: true
+}
+
+// ExampleFitter_EkinRange builds a fitter for the demo tank with two
+// sensors out of service and prints the kinetic-energy range of each
+// hypothesis: a caller sends events to the ring fitter by it instead of
+// hard-coding a boundary.
+func ExampleFitter_EkinRange() {
+	s, err := setup.Demo()
+	if err != nil {
+		log.Fatal(err)
+	}
+	s.Dead = []int{12, 345}
+	f, err := ring.New(ring.Config{Setup: s})
+	if err != nil {
+		log.Fatal(err)
+	}
+	for _, h := range []ring.Hypothesis{ring.Electron, ring.Muon} {
+		lo, hi := f.EkinRange(h)
+		fmt.Printf("%v: %g to %g MeV\n", h, lo, hi)
+	}
+	// Output:
+	// electron: 20 to 3000 MeV
+	// muon: 65 to 3000 MeV
 }

@@ -6,6 +6,7 @@ import (
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/optimize"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -220,4 +221,61 @@ func (w *workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) 
 		}
 		return s
 	}
+}
+
+// trackSeed turns the point seed into a track seed for hypothesis h:
+// the energy that matches the total charge and the start point moved back
+// along the direction to the best of a few candidates.
+func (w *workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector) fit.Track {
+	f := w.f
+	var q float64
+	for _, i := range w.hits {
+		q += w.hitQ[i]
+	}
+	q /= f.charge.m1
+	lo, hi := f.EkinRange(h)
+	best := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: math.Sqrt(lo * hi)}
+	bestNLL := math.Inf(1)
+	// The point fit lands where most light comes from: near the shower
+	// maximum of an electron, mid-track for a muon. Try start points
+	// behind it, re-aiming the ring at each; the energy that matches the
+	// charge hardly depends on the start, so after the first candidate
+	// one update from the last energy suffices.
+	iters := 3
+	for _, back := range []float64{0, 0.33, 0.67, 1.0} {
+		tr := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
+		for it := 0; it < iters; it++ {
+			sh := back * w.lightLength(h, tr.Ekin)
+			tr.Vertex = v.Sub(u.Mul(sh))
+			if f.det.DistanceToWall(tr.Vertex) < 1 {
+				tr.Vertex = v
+				sh = 0
+			}
+			tr.Time = t0 - sh/phys.SpeedOfLight
+			if it == 0 {
+				tr.Dir = w.refineDirection(tr.Vertex, u)
+			}
+			w.predict(h, tr)
+			var p float64
+			for i := range w.muD {
+				if !f.dead[i] {
+					p += w.muD[i] + w.muI[i]
+				}
+			}
+			if !(p > 0) {
+				break
+			}
+			tr.Ekin = min(max(tr.Ekin*q/p, lo), hi)
+		}
+		iters = 1
+		if n := w.nll(h, tr); n < bestNLL {
+			best, bestNLL = tr, n
+		}
+	}
+	return best
+}
+
+func (w *workspace) lightLength(h Hypothesis, e float64) float64 {
+	w.f.species(h).interpolate(e, &w.prof)
+	return w.prof.light90
 }

@@ -1,6 +1,7 @@
 package hadron
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/conelight/conelight/sim/phys"
@@ -37,7 +38,7 @@ func (c Channel) String() string {
 	if c >= 0 && c < numChannels {
 		return channelNames[c]
 	}
-	return "Channel(?)"
+	return fmt.Sprintf("Channel(%d)", int(c))
 }
 
 // pionOxygen is the pi+- 16O cross-section per channel (mb) against pion
@@ -111,8 +112,8 @@ func pionOxygenAt(t float64) [numChannels]float64 {
 // at pion kinetic energy t (MeV), indexed by Channel (index 0 unused).
 func PionOxygen(t float64) [numChannels]float64 { return pionOxygenAt(t) }
 
-// Delta(1232) parameters (PDG Review 2024, Breit-Wigner mass and width
-// 1210-1219 / 1232 MeV; 1232 and 117 MeV used here).
+// Delta(1232) Breit-Wigner mass and width, 1232 and 117 MeV (PDG Review
+// particle listings; from memory).
 const (
 	deltaMass  = 1232.0
 	deltaWidth = 117.0

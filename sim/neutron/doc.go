@@ -5,8 +5,8 @@
 //
 // Cross-sections (see xsec.go for the values and their sources): n-p
 // elastic scattering from the effective-range formula below 20 MeV (20.4 b
-// thermal, 4.26 b at 1 MeV) and a table above; n-16O elastic 3.75 b below
-// 0.3 MeV (coherent scattering length) and a smoothed curve above, its
+// thermal, 4.26 b at 1 MeV) and a table above; n-16O elastic 3.888 b below
+// 0.3 MeV (free-atom value) and a smoothed curve above, its
 // resonances left out; 16O(n, n') to the 6.13 MeV state from 6.5 to 20 MeV
 // with its gamma; above 20 MeV the oxygen non-elastic cross-section and
 // knock-out model of sim/hadron (one nucleon out, de-excitation gamma);

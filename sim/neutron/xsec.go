@@ -66,19 +66,19 @@ func HydrogenElastic(e float64) float64 {
 	return hadron.InterpLog([]float64{20, 50, 100, 200, 500}, []float64{HydrogenElastic(20), 0.17, 0.073, 0.043, 0.035}, e)
 }
 
-// OxygenElastic returns the n-16O elastic cross-section (barn): 3.75 b
-// below 0.3 MeV, the free-atom value of the coherent scattering length
-// 5.803 fm (4 pi b^2 (A/(A+1))^2; Sears, Neutron News 3 (1992) 26, from
-// memory), then a smooth curve through the resonances from memory of the
-// evaluations (3.0 b at 1 MeV, 1.5 b at 3 MeV, 1.0 b at 10-20 MeV, falling
-// to 0.3 b at 1 GeV). The resonances (e.g. 0.43 and 1.0 MeV) are not
+// OxygenElastic returns the n-16O elastic cross-section (barn): 3.888 b
+// below 0.3 MeV, the free-atom value of the ENDF/B thermal scattering law
+// for water (3.8883 b for O beside 20.449 b for H, the LEAPR input for H in
+// H2O of the NJOY2016 test suite, looked up), then a smooth curve through
+// the resonances from memory of the evaluations (3.0 b at 1 MeV, 1.5 b at
+// 3 MeV, 1.0 b at 10-20 MeV, falling to 0.3 b at 1 GeV). The resonances (e.g. 0.43 and 1.0 MeV) are not
 // modelled: they change where a fast neutron scatters, not whether it is
 // moderated and captured.
 func OxygenElastic(e float64) float64 {
 	if e <= 0.3 {
-		return 3.75
+		return 3.888
 	}
-	return hadron.InterpLog([]float64{0.3, 1, 3, 10, 20, 100, 1000}, []float64{3.75, 3.0, 1.5, 1.0, 1.0, 0.5, 0.3}, e)
+	return hadron.InterpLog([]float64{0.3, 1, 3, 10, 20, 100, 1000}, []float64{3.888, 3.0, 1.5, 1.0, 1.0, 0.5, 0.3}, e)
 }
 
 // OxygenInelastic returns the 16O(n, n' gamma 6.13 MeV) cross-section

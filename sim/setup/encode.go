@@ -299,11 +299,11 @@ func fmtArray(v []float64) string {
 	var b strings.Builder
 	b.WriteString("[")
 	for i, x := range v {
-		if i > 0 {
+		switch {
+		case i > 0 && i%10 == 0:
+			b.WriteString(",\n  ")
+		case i > 0:
 			b.WriteString(", ")
-			if i%10 == 0 {
-				b.WriteString("\n  ")
-			}
 		}
 		b.WriteString(fmtFloat(x))
 	}

@@ -47,5 +47,5 @@ vessel_radius_m = 4
 	_, err := setup.Parse([]byte(text), "pool.toml")
 	fmt.Println(err)
 	// Output:
-	// setup: pool.toml line 2: tank.vessel_radius_m: unknown key; [tank] takes vessel_radius_cm, vessel_height_cm, sensor_offset_cm
+	// setup: pool.toml line 2: tank.vessel_radius_m: unknown key; did you mean vessel_radius_cm (the unit is part of the name)? [tank] takes vessel_radius_cm, vessel_height_cm, sensor_offset_cm
 }

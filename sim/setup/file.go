@@ -227,8 +227,30 @@ func (p *parser) unknownKeys(keys []toml.Key) {
 		if len(options) == 0 {
 			msg = "unknown key"
 		}
+		if near := sameStem(k[len(k)-1], options); near != "" {
+			msg = fmt.Sprintf("unknown key; did you mean %s (the unit is part of the name)? %s takes %s",
+				near, where, strings.Join(options, ", "))
+		}
 		p.fail(top, "%s", msg)
 	}
+}
+
+// sameStem returns the option that shares key's name up to its last
+// underscore (vessel_radius_m and vessel_radius_cm: a key in other units),
+// or "".
+func sameStem(key string, options []string) string {
+	stem := func(k string) string {
+		if i := strings.LastIndexByte(k, '_'); i > 0 {
+			return k[:i]
+		}
+		return k
+	}
+	for _, o := range options {
+		if o != key && (stem(o) == stem(key) || stem(o) == key) {
+			return o
+		}
+	}
+	return ""
 }
 
 // interval is an allowed range of a number, with its unit for messages.

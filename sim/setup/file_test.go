@@ -408,7 +408,8 @@ func TestBadFiles(t *testing.T) {
 		frags    []string
 	}{
 		{"unknown key", "tts_sigma_ns = 1.1", "tts_ns = 1.1", "sensor.tts_ns", 9, []string{"unknown key", "tts_sigma_ns"}},
-		{"wrong unit", "vessel_radius_cm = 560", "vessel_radius_m = 5.6", "tank.vessel_radius_m", 4, []string{"unknown key", "vessel_radius_cm"}},
+		{"wrong unit", "vessel_radius_cm = 560", "vessel_radius_m = 5.6", "tank.vessel_radius_m", 4, []string{"unknown key", "did you mean vessel_radius_cm "}},
+		{"unit left out", "tts_sigma_ns = 1.1", "tts_sigma = 1.1", "sensor.tts_sigma", 9, []string{"did you mean tts_sigma_ns "}},
 		{"unknown table", "[liner]", "[lining]", "lining", 15, []string{"[liner]"}},
 		{"missing required key", "vessel_height_cm = 1160\n", "", "tank.vessel_height_cm", 3, []string{"missing (required)", "(0, 1e+06] cm"}},
 		{"missing layout", "coverage = 0.3\n", "", "layout", 10, []string{"coverage or layout.sensor_csv"}},
