@@ -507,3 +507,125 @@ func TestSubEventsInFile(t *testing.T) {
 		t.Errorf("the file's events differ from the run's")
 	}
 }
+
+// TestSecondaryDecayVertices: the decays of secondary particles are in
+// the truth. A 100 MeV pi+ in the demo tank that decays gives a mu+ (the
+// product of the pion's decay vertex) whose own decay vertex holds its
+// positron; the mu+ decay times after the pion's follow the free muon
+// mean life phys.MuonLifetime (PDG Review 2024; maximum-likelihood mean
+// with error tau/sqrt(n)).
+func TestSecondaryDecayVertices(t *testing.T) {
+	n := 1500
+	if testing.Short() {
+		n = 400
+	}
+	s := demoSim(t, 1, nil)
+	var dts []float64
+	var piDecays, missing int
+	for i := range n {
+		ev, err := s.Event(uint64(i), []phys.Particle{{PDG: phys.PionPlusCode, Dir: r3.Vector{Z: 1}, Ekin: 100}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		vs := ev.Truth.Vertices
+		for _, v := range vs {
+			if v.Track != 1 || (v.Process != phys.StoppedDecayed && v.Process != phys.DecayedInFlight) {
+				continue
+			}
+			if len(v.Products) != 1 || v.Products[0].PDG != phys.MuonPlus {
+				continue // pi+ -> e+ nu
+			}
+			piDecays++
+			mu := v.Products[0].Track
+			found := false
+			for _, u := range vs {
+				if u.Track == mu {
+					found = true
+					if u.PDG != phys.MuonPlus || len(u.Products) != 1 || u.Products[0].PDG != phys.Positron || u.Time < v.Time {
+						t.Errorf("event %d: mu+ vertex %+v after the pion's at %v", i, u, v.Time)
+					}
+					dts = append(dts, u.Time-v.Time)
+				}
+			}
+			if !found {
+				missing++
+			}
+		}
+	}
+	tau := stat.Mean(dts, nil)
+	stau := tau / math.Sqrt(float64(len(dts)))
+	t.Logf("%d pi+: %d decays to mu+, mu+ decay vertex missing for %d; mean mu+ life %.0f +- %.0f ns (free %.1f ns)", n, piDecays, missing, tau, stau, phys.MuonLifetime)
+	if piDecays < n/2 || missing > 0 {
+		t.Errorf("%d pion decays, %d without the muon's decay vertex", piDecays, missing)
+	}
+	if math.Abs(tau-phys.MuonLifetime) > 3*stau {
+		t.Errorf("mu+ mean life %.0f +- %.0f ns, want %.1f ns within 3 sigma", tau, stau, phys.MuonLifetime)
+	}
+}
+
+// TestSecondaryVertexReading: the reading of a decay or capture from
+// the sink (secondaryVertex, used for secondary particles) agrees with
+// the transport's own record for primaries, where both exist: same
+// process, time, place and products, for stopped and decaying muons,
+// pions and neutrons; and it finds none where the record has none. The
+// kinds it cannot read (a mu- capture, a mu- decay in flight) are
+// counted apart.
+func TestSecondaryVertexReading(t *testing.T) {
+	n := 200
+	if testing.Short() {
+		n = 60
+	}
+	s := demoSim(t, 1, nil)
+	w, err := s.newWorker()
+	if err != nil {
+		t.Fatal(err)
+	}
+	cfg := s.Config()
+	for _, tc := range []struct {
+		pdg  int
+		ekin float64
+	}{{phys.MuonMinus, 200}, {phys.MuonPlus, 200}, {phys.PionPlusCode, 100}, {phys.PionMinusCode, 100}, {phys.NeutronCode, 20}} {
+		agree, unreadable := map[phys.Fate]int{}, 0
+		for i := range n {
+			prims := []phys.Particle{{PDG: tc.pdg, Dir: r3.Vector{Z: 1}, Ekin: tc.ekin}}
+			ev, err := w.simulate(uint64(i), EventStream(cfg.Seed, uint64(i)), prims)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var rec *event.Vertex
+			for j := range ev.Truth.Vertices {
+				if ev.Truth.Vertices[j].Track == 1 {
+					rec = &ev.Truth.Vertices[j]
+				}
+			}
+			var own []phys.Particle
+			for _, p := range w.secs {
+				if p.Parent == 1 {
+					own = append(own, p)
+				}
+			}
+			got, ok := event.Vertex{}, false
+			if len(own) > 0 {
+				got, ok = w.secondaryVertex(1, own)
+			}
+			if rec != nil && tc.pdg == phys.MuonMinus && (rec.Process == phys.StoppedCaptured || rec.Process == phys.DecayedInFlight) {
+				unreadable++
+				if ok {
+					t.Errorf("%d event %d: read %+v where the record has %v", tc.pdg, i, got, rec.Process)
+				}
+				continue
+			}
+			switch {
+			case rec == nil && ok:
+				t.Errorf("%d event %d: read %+v where the record has no vertex", tc.pdg, i, got)
+			case rec != nil && !ok:
+				t.Errorf("%d event %d: read nothing where the record has %+v", tc.pdg, i, *rec)
+			case rec != nil && !reflect.DeepEqual(got, *rec):
+				t.Errorf("%d event %d: read %+v, the record has %+v", tc.pdg, i, got, *rec)
+			case rec != nil:
+				agree[rec.Process]++
+			}
+		}
+		t.Logf("PDG %d, %g MeV: read as recorded %v; not readable (mu- capture or decay in flight) %d", tc.pdg, tc.ekin, agree, unreadable)
+	}
+}

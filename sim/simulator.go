@@ -1,14 +1,10 @@
 package sim
 
 import (
-	"cmp"
 	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
-
-	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/cherenkov"
@@ -118,9 +114,11 @@ type worker struct {
 	piece  []pmt.Photoelectron
 	later  []pmt.Hit
 	darkPE int
-	// The primaries' direct secondaries, for the vertex truth.
+	// Vertex truth (vertices.go).
 	nPrimaries int
 	secs       []phys.Particle
+	trackPDG   []int32
+	ends       []trackEnd
 	traced     int
 	err        error
 }
@@ -162,41 +160,6 @@ func (w *worker) Segment(seg phys.Segment) {
 	w.pes = w.s.tracer.TraceAll(w.photons, w.rng, w.pes, nil)
 }
 
-// Secondary keeps the secondaries made directly by a primary, the
-// candidates for the products of its decay or capture (vertices).
-func (w *worker) Secondary(p phys.Particle) {
-	if p.Parent >= 1 && p.Parent <= w.nPrimaries {
-		w.secs = append(w.secs, p)
-	}
-}
-
-func (w *worker) Deposit(r3.Vector, float64, float64, int) {}
-
-// vertices returns the decays and captures of the primaries, in time
-// order: each primary whose transport record ends in a decay or capture,
-// at its end point and decay time, with the secondaries it made there.
-// Decays and captures of secondary particles are not recorded: the
-// transport reports no fate for them.
-func (w *worker) vertices(tracks []transport.Primary) []event.Vertex {
-	var vs []event.Vertex
-	for i, pr := range tracks {
-		switch pr.Fate {
-		case phys.StoppedDecayed, phys.DecayedInFlight, phys.StoppedCaptured, phys.Captured:
-		default:
-			continue
-		}
-		v := event.Vertex{Track: i + 1, PDG: pr.Particle.PDG, Process: pr.Fate, Time: pr.DecayTime, Pos: pr.End}
-		for _, p := range w.secs {
-			if p.Parent == i+1 && p.Time == pr.DecayTime {
-				v.Products = append(v.Products, p)
-			}
-		}
-		vs = append(vs, v)
-	}
-	slices.SortStableFunc(vs, func(a, b event.Vertex) int { return cmp.Compare(a.Time, b.Time) })
-	return vs
-}
-
 // Event simulates one event with the given primaries, using the event's
 // own random stream EventStream(Seed, number). The primaries are copied.
 func (s *Simulator) Event(number uint64, primaries []phys.Particle) (*event.Event, error) {
@@ -231,7 +194,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		return nil, errors.New("sim: event has no primaries")
 	}
 	w.rng, w.err, w.traced = rng, nil, 0
-	w.nPrimaries, w.secs = len(primaries), w.secs[:0]
+	w.startVertices(primaries)
 	w.pes = w.pes[:0]
 	w.visible = append(w.visible[:0], make([]float64, len(primaries))...)
 	tracks, err := w.tracker.Run(primaries, s.cfg.Detector, rng, w)
