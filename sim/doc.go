@@ -40,7 +40,9 @@
 // below the trigger threshold. Dark noise exists only over the windows
 // read out, so an event's memory is its signal photoelectrons, one
 // window's dark pulses and the hits it keeps. Truth.Vertices records the
-// decays and captures of the primaries.
+// decays and captures: of the primaries from the transport's record, of
+// secondary particles as read from what the transport reports
+// (vertices.go).
 //
 // Run spreads events over Config.Workers goroutines. Each event depends
 // only on (Seed, number), so the output is bit-identical for any number of
