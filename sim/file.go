@@ -42,7 +42,17 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 		Setup:           s.cfg.Name,
 		Dead:            s.deadSorted(),
 		ExtendedWindow:  s.cfg.ExtendedWindow,
+		Optics:          s.opticsRecord(),
 	}, nil
+}
+
+// opticsRecord returns the water and liner settings for the run record.
+func (s *Simulator) opticsRecord() event.Optics {
+	w := s.cfg.Water.Config()
+	if math.IsInf(w.MieLength, 1) {
+		w.MieLength = 0 // both switch the Mie component off
+	}
+	return event.Optics{Water: w, Liner: s.cfg.Liner, Recorded: true}
 }
 
 // deadSorted returns the dead sensors in index order, nil for none.

@@ -64,6 +64,10 @@ func TestRunDescriptionsInWords(t *testing.T) {
 					t.Errorf("description lacks %q:\n%s", w, all)
 				}
 			}
+			if w, err := optics.NewWater(ri.Optics.Water); err != nil || !ri.Optics.Recorded ||
+				w.Config() != s.Config().Water.Config() || ri.Optics.Liner != s.Config().Liner {
+				t.Errorf("RunInfo.Optics = %+v does not rebuild the water %+v and liner %+v (%v)", ri.Optics, s.Config().Water.Config(), s.Config().Liner, err)
+			}
 			if ri.Setup != s.Config().Name || ri.Setup == "" {
 				t.Errorf("RunInfo.Setup = %q, want the setup's name %q", ri.Setup, s.Config().Name)
 			}

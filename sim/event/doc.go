@@ -60,7 +60,8 @@
 // Version 3 (this one) added to the events tree the lab position (lab_*),
 // the sub-events (later triggers), the extended-window hits and the
 // decay and capture vertices with their products; to the run tree the
-// setup name, the dead sensors and the extended window. Open reads
+// setup name, the dead sensors, the extended window and the water and liner
+// settings as numbers. Open reads
 // versions 1, 2 and 3; the columns a version lacks read as zero or empty.
 //
 // Version 2 added to the events tree the interaction columns
@@ -198,6 +199,19 @@
 //	n_dead                    int32               dead sensors (v3)
 //	dead                      int32[n]            their indices, sorted
 //	extended_window           float64        ns   0: off (v3)
+//	optics_recorded           bool                the water and liner settings follow (v3)
+//	water_temperature         float64        C    optics.WaterConfig: TemperatureC
+//	water_band_lo, _band_hi   float64        nm   BandLo, BandHi
+//	water_absorption_scale    float64             AbsorptionScale (as configured)
+//	water_rayleigh_scale      float64             RayleighScale
+//	water_mie_length          float64        cm   MieLength (0: off)
+//	water_mie_wavelength      float64        nm   MieWavelength
+//	water_mie_exponent        float64             MieExponent
+//	water_mie_g               float64             MieG
+//	water_attenuation_length  float64        cm   AttenuationLength (0: not set)
+//	water_attenuation_wavelength float64     nm   AttenuationWavelength
+//	liner_reflectivity        float64             optics.Liner: Reflectivity
+//	liner_diffuse_fraction    float64             DiffuseFraction
 //	crc32c                    uint32
 //
 // TObjString "integrity": text lines "conelight-integrity 1", "region B E"

@@ -39,6 +39,7 @@ func goldenContent(t *testing.T, v int) (setup, RunInfo, []Event) {
 	run.Source = SourceStats{Read: 7, Skipped: 1, Reasons: []string{"event 3 (line 40): no particle the simulator tracks"}}
 	if v >= 3 {
 		run.Setup, run.Dead, run.ExtendedWindow = "small test layout", []int{0, 3}, 5e5
+		run.Optics = testOptics()
 	}
 	return s, run, events
 }

@@ -17,6 +17,7 @@ import (
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -359,4 +360,13 @@ func unsetenv(t testing.TB, key string) {
 	if err := os.Unsetenv(key); err != nil {
 		t.Fatal(err)
 	}
+}
+
+// testOptics are recorded optics settings with every field set.
+func testOptics() Optics {
+	w := optics.DefaultWaterConfig()
+	w.TemperatureC, w.AbsorptionScale, w.RayleighScale = 13.5, 1.25, 0.9
+	w.MieLength, w.MieG = 2e4, 0.85
+	w.AttenuationLength, w.AttenuationWavelength = 6000, 420
+	return Optics{Water: w, Liner: optics.Liner{Reflectivity: 0.07, DiffuseFraction: 0.4}, Recorded: true}
 }

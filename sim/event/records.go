@@ -8,6 +8,7 @@ import (
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -623,6 +624,12 @@ type runRecord struct {
 	NDead                              int32
 	Dead                               []int32
 	ExtendedWindow                     float64
+	WaterT, WaterBandLo, WaterBandHi   float64
+	WaterAbs, WaterRayleigh            float64
+	WaterMieL, WaterMieWl, WaterMieExp float64
+	WaterMieG, WaterAttL, WaterAttWl   float64
+	LinerRefl, LinerDiffuse            float64
+	OpticsRecorded                     bool
 }
 
 // runShardColumns are the run columns that may differ between shards of
@@ -680,6 +687,20 @@ func (r *runRecord) cols(v int32) []column {
 			column{name: "n_dead", ptr: &r.NDead},
 			column{name: "dead", ptr: &r.Dead, count: "n_dead"},
 			column{name: "extended_window", ptr: &r.ExtendedWindow},
+			column{name: "optics_recorded", ptr: &r.OpticsRecorded},
+			column{name: "water_temperature", ptr: &r.WaterT},
+			column{name: "water_band_lo", ptr: &r.WaterBandLo},
+			column{name: "water_band_hi", ptr: &r.WaterBandHi},
+			column{name: "water_absorption_scale", ptr: &r.WaterAbs},
+			column{name: "water_rayleigh_scale", ptr: &r.WaterRayleigh},
+			column{name: "water_mie_length", ptr: &r.WaterMieL},
+			column{name: "water_mie_wavelength", ptr: &r.WaterMieWl},
+			column{name: "water_mie_exponent", ptr: &r.WaterMieExp},
+			column{name: "water_mie_g", ptr: &r.WaterMieG},
+			column{name: "water_attenuation_length", ptr: &r.WaterAttL},
+			column{name: "water_attenuation_wavelength", ptr: &r.WaterAttWl},
+			column{name: "liner_reflectivity", ptr: &r.LinerRefl},
+			column{name: "liner_diffuse_fraction", ptr: &r.LinerDiffuse},
 		)
 	}
 	return cols
@@ -705,6 +726,13 @@ func (r *runRecord) set(ri *RunInfo) {
 	for i, d := range ri.Dead {
 		r.Dead[i] = int32(d)
 	}
+	o := &ri.Optics
+	w := &o.Water
+	r.OpticsRecorded = o.Recorded
+	r.WaterT, r.WaterBandLo, r.WaterBandHi, r.WaterAbs, r.WaterRayleigh = w.TemperatureC, w.BandLo, w.BandHi, w.AbsorptionScale, w.RayleighScale
+	r.WaterMieL, r.WaterMieWl, r.WaterMieExp, r.WaterMieG = w.MieLength, w.MieWavelength, w.MieExponent, w.MieG
+	r.WaterAttL, r.WaterAttWl = w.AttenuationLength, w.AttenuationWavelength
+	r.LinerRefl, r.LinerDiffuse = o.Liner.Reflectivity, o.Liner.DiffuseFraction
 	for i, m := range ri.Missing {
 		r.MissingFirst[i], r.MissingN[i] = m.First, m.N
 	}
@@ -737,6 +765,16 @@ func (r *runRecord) run() (RunInfo, error) {
 		KeepUntriggered: r.KeepUntriggered,
 		Setup:           r.SetupName,
 		ExtendedWindow:  r.ExtendedWindow,
+		Optics: Optics{
+			Water: optics.WaterConfig{
+				TemperatureC: r.WaterT, BandLo: r.WaterBandLo, BandHi: r.WaterBandHi,
+				AbsorptionScale: r.WaterAbs, RayleighScale: r.WaterRayleigh,
+				MieLength: r.WaterMieL, MieWavelength: r.WaterMieWl, MieExponent: r.WaterMieExp, MieG: r.WaterMieG,
+				AttenuationLength: r.WaterAttL, AttenuationWavelength: r.WaterAttWl,
+			},
+			Liner:    optics.Liner{Reflectivity: r.LinerRefl, DiffuseFraction: r.LinerDiffuse},
+			Recorded: r.OpticsRecorded,
+		},
 	}
 	if !allEqual(int(r.NDead), len(r.Dead)) {
 		return RunInfo{}, fmt.Errorf("dead array disagrees with n_dead = %d", r.NDead)

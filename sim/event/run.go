@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 )
 
 // RunInfo describes how the events of a file were made, so that the file
@@ -73,6 +74,22 @@ type RunInfo struct {
 	// which every hit was kept (Event.Extended); 0 when off and in files
 	// of format versions 1 and 2.
 	ExtendedWindow float64
+	// Optics are the water and liner settings as numbers, from which the
+	// run's optics can be rebuilt (optics.NewWater); Water and Options
+	// describe them in words.
+	Optics Optics
+}
+
+// Optics are the water and liner settings of a run.
+type Optics struct {
+	// Water is the water's configuration (optics.Water.Config), with a
+	// Mie length of +Inf stored as 0 (both switch it off).
+	Water optics.WaterConfig
+	// Liner is the liner's reflectivity and diffuse fraction.
+	Liner optics.Liner
+	// Recorded says the file holds these settings; false in files of
+	// format versions 1 and 2, which give them only in words.
+	Recorded bool
 }
 
 // Span is a range of event numbers: First .. First+N-1.
@@ -153,6 +170,23 @@ func (r *RunInfo) Validate() error {
 		if d < 0 || d > math.MaxInt32 || (i > 0 && d <= r.Dead[i-1]) {
 			return fmt.Errorf("event: RunInfo.Dead[%d] = %d: want sorted, distinct sensor indices in [0, %d]", i, d, math.MaxInt32)
 		}
+	}
+	if o := &r.Optics; o.Recorded {
+		w := &o.Water
+		for _, f := range []struct {
+			name string
+			v    float64
+		}{{"TemperatureC", w.TemperatureC}, {"BandLo", w.BandLo}, {"BandHi", w.BandHi}, {"AbsorptionScale", w.AbsorptionScale},
+			{"RayleighScale", w.RayleighScale}, {"MieLength", w.MieLength}, {"MieWavelength", w.MieWavelength},
+			{"MieExponent", w.MieExponent}, {"MieG", w.MieG}, {"AttenuationLength", w.AttenuationLength},
+			{"AttenuationWavelength", w.AttenuationWavelength}, {"Liner.Reflectivity", o.Liner.Reflectivity},
+			{"Liner.DiffuseFraction", o.Liner.DiffuseFraction}} {
+			if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+				return fmt.Errorf("event: RunInfo.Optics.%s = %v must be finite", f.name, f.v)
+			}
+		}
+	} else if r.Optics != (Optics{}) {
+		return fmt.Errorf("event: RunInfo.Optics = %+v must be zero when Recorded is false", r.Optics)
 	}
 	if !(r.ExtendedWindow >= 0) || math.IsInf(r.ExtendedWindow, 0) {
 		return fmt.Errorf("event: RunInfo.ExtendedWindow = %v must be non-negative and finite (ns)", r.ExtendedWindow)
