@@ -180,7 +180,9 @@ type Track struct {
 // Validate checks e for storage with a detector of nSensors sensors: every
 // hit sensor index in [0, nSensors), every float finite, every count
 // non-negative, the photoelectron split summing to Photoelectrons, every
-// Fate known and every integer small enough for the 32-bit file columns.
+// Fate known, every integer small enough for the 32-bit file columns, and
+// sub-events (in increasing time after the primary trigger) and extended
+// hits only in a triggered event.
 // The error names the first bad field and its value. Validate does not
 // allocate unless it fails.
 func (e *Event) Validate(nSensors int) error {
@@ -192,24 +194,6 @@ func (e *Event) Validate(nSensors int) error {
 	}
 	if field, msg := badHits(e.Hits, nSensors); msg != "" {
 		return fail(field, msg)
-	}
-	if msg := badLength(len(e.SubEvents)); msg != "" {
-		return fail("len(SubEvents)", msg)
-	}
-	for i := range e.SubEvents {
-		sub := &e.SubEvents[i]
-		if msg := badFloat(sub.Time); msg != "" {
-			return fail(fmt.Sprintf("SubEvents[%d].Time", i), msg)
-		}
-		if field, msg := badHits(sub.Hits, nSensors); msg != "" {
-			return fail(fmt.Sprintf("SubEvents[%d].%s", i, field), msg)
-		}
-	}
-	if field, msg := badHits(e.Extended, nSensors); msg != "" {
-		return fail("Extended"+strings.TrimPrefix(field, "Hits"), msg)
-	}
-	if len(e.SubEvents) > 0 && !e.Truth.Triggered {
-		return fail("len(SubEvents)", fmt.Sprintf("%d must be 0 when Truth.Triggered is false", len(e.SubEvents)))
 	}
 	t := &e.Truth
 	if msg := badLength(len(t.Primaries)); msg != "" {
@@ -254,6 +238,29 @@ func (e *Event) Validate(nSensors int) error {
 		if field, msg := badVertex(&t.Vertices[i]); msg != "" {
 			return fail(fmt.Sprintf("Truth.Vertices[%d].%s", i, field), msg)
 		}
+	}
+	if msg := badLength(len(e.SubEvents)); msg != "" {
+		return fail("len(SubEvents)", msg)
+	}
+	prev := 0.0
+	for i := range e.SubEvents {
+		sub := &e.SubEvents[i]
+		if msg := badFloat(sub.Time); msg != "" {
+			return fail(fmt.Sprintf("SubEvents[%d].Time", i), msg)
+		}
+		if !(sub.Time > prev) {
+			return fail(fmt.Sprintf("SubEvents[%d].Time", i), fmt.Sprintf("%v must be after the primary trigger and the sub-event before (%v)", sub.Time, prev))
+		}
+		prev = sub.Time
+		if field, msg := badHits(sub.Hits, nSensors); msg != "" {
+			return fail(fmt.Sprintf("SubEvents[%d].%s", i, field), msg)
+		}
+	}
+	if field, msg := badHits(e.Extended, nSensors); msg != "" {
+		return fail("Extended"+strings.TrimPrefix(field, "Hits"), msg)
+	}
+	if !t.Triggered && (len(e.SubEvents) > 0 || len(e.Extended) > 0) {
+		return fail("Truth.Triggered", fmt.Sprintf("false with %d sub-events and %d extended hits; both need a primary trigger", len(e.SubEvents), len(e.Extended)))
 	}
 	return nil
 }

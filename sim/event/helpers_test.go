@@ -176,8 +176,9 @@ func addVersion3(e *Event, nSensors, maxHits int) {
 	if t.Triggered {
 		if k := n(3); k > 0 {
 			e.SubEvents = make([]SubEvent, k)
+			dt := 0.0
 			for i := range e.SubEvents {
-				dt := float64(i+1) * 2000 * (1 + rng.Float64())
+				dt += 2000 * (1 + rng.Float64())
 				e.SubEvents[i] = SubEvent{Time: dt, Hits: hits(n(maxHits), t.TriggerTime+dt)}
 			}
 		}
