@@ -30,6 +30,17 @@ type Config struct {
 	// photon is traced and detection is decided at the sensor alone. The
 	// results have the same distribution, at several times the cost.
 	TraceAllPhotons bool
+	// ExtendedWindow (ns) keeps every hit from the end of the primary
+	// trigger's readout window to ExtendedWindow after the primary
+	// trigger (event.Event.Extended), with dark pulses over that stretch,
+	// so that signals below the trigger threshold (a faint neutron
+	// capture) can be tagged afterwards. 0, the default, keeps only the
+	// triggers' readout windows. At most MaxExtendedWindow; the hits kept
+	// grow with it, about nSensors * DarkRate * ExtendedWindow dark hits
+	// of 24 bytes each (40 000 hits, 1 MB, for 1 ms in the large tank);
+	// the dark pulses are made 10 microseconds at a time, so nothing
+	// else grows with it.
+	ExtendedWindow float64
 	// KeepUntriggered keeps events that do not trigger (with all their
 	// hits and Triggered = false); otherwise Run drops them.
 	KeepUntriggered bool
@@ -72,6 +83,9 @@ func (c *Config) validate() error {
 	}
 	if err := c.Setup.CheckTrigger(); err != nil {
 		return fmt.Errorf("sim: %w", err)
+	}
+	if err := checkExtendedWindow(c.ExtendedWindow); err != nil {
+		return err
 	}
 	if c.Workers < 0 {
 		return fmt.Errorf("sim: Config.Workers = %d must not be negative", c.Workers)

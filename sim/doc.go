@@ -17,10 +17,12 @@
 //     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
 //     each photon is traced at once to the wall (sim/photon), so no event
 //     ever holds its photons in memory;
-//  4. dark pulses are added over the signal span plus the readout margins
-//     (pmt.Model.AddDark), photoelectrons are digitized (pmt.Digitizer),
-//     the hits of dead sensors (Setup.Dead) are dropped, and the trigger
-//     (pmt.Trigger) decides the readout window.
+//  4. the signal photoelectrons are split into clusters in time (a gap
+//     longer than a whole readout starts a new one); each cluster gets dark
+//     pulses over its readout window only (pmt.Model.AddDark) and is
+//     digitized (pmt.Digitizer), the hits of dead sensors (Setup.Dead) are
+//     dropped, and the trigger (pmt.Trigger) is looked for cluster by
+//     cluster (readout.go).
 //
 // A dead sensor still absorbs the light that reaches it; it makes no hit,
 // signal or dark, and its photoelectrons are not in the truth counts. Its
@@ -29,10 +31,18 @@
 // depend on the list.
 //
 // Hit times are on the event clock: ns since the primaries' time origin
-// (the generator's vertex time). Only the first trigger of an event is
-// read out; light arriving after the readout window (for example from a
-// muon's decay electron microseconds later) is in the truth counts but
-// not in the hits.
+// (the generator's vertex time). The first trigger of an event is the
+// primary one (Event.Hits, Truth.TriggerTime); every later trigger (a
+// muon's decay electron microseconds later, a neutron capture hundreds of
+// microseconds later) is read out as a sub-event with its own window
+// (Event.SubEvents). Config.ExtendedWindow keeps, in addition, every hit
+// up to that time after the primary trigger (Event.Extended), for signals
+// below the trigger threshold. Dark noise exists only over the windows
+// read out, so an event's memory is its signal photoelectrons, one
+// window's dark pulses and the hits it keeps. Truth.Vertices records the
+// decays and captures: of the primaries from the transport's record, of
+// secondary particles as read from what the transport reports
+// (vertices.go).
 //
 // Run spreads events over Config.Workers goroutines. Each event depends
 // only on (Seed, number), so the output is bit-identical for any number of

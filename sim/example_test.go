@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"log"
+	"math"
 
 	"github.com/golang/geo/r3"
 
@@ -63,4 +64,39 @@ func ExampleSimulator_Run() {
 	fmt.Println("events kept:", n)
 	// Output:
 	// events kept: 20
+}
+
+// A stopping mu- whose decay electron triggers again: the later trigger
+// is a sub-event, with its time after the primary trigger; the truth
+// holds the decay vertex with its electron. With an extended window every
+// hit of the following 20 microseconds is kept too.
+func ExampleConfig_extendedWindow() {
+	cfg, err := sim.DemoConfig(3)
+	if err != nil {
+		log.Fatal(err)
+	}
+	cfg.ExtendedWindow = 20_000 // ns after the primary trigger
+	s, err := sim.New(cfg)
+	if err != nil {
+		log.Fatal(err)
+	}
+	for number := uint64(0); ; number++ {
+		ev, err := s.Event(number, []phys.Particle{{PDG: phys.MuonMinus, Dir: r3.Vector{Z: 1}, Ekin: 300}})
+		if err != nil {
+			log.Fatal(err)
+		}
+		if len(ev.SubEvents) == 0 {
+			continue // decayed inside the primary readout window, or captured
+		}
+		sub := ev.SubEvents[0]
+		v := ev.Truth.Vertices[0]
+		fmt.Println("decay:", v.Process, "making", len(v.Products), "electron")
+		fmt.Println("sub-event at the decay:", math.Abs(ev.Truth.TriggerTime+sub.Time-v.Time) < 100)
+		fmt.Println("sub-event hits also in the extended window:", len(ev.Extended) >= len(sub.Hits))
+		break
+	}
+	// Output:
+	// decay: stopped-decayed making 1 electron
+	// sub-event at the decay: true
+	// sub-event hits also in the extended window: true
 }

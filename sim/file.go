@@ -4,9 +4,12 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
+	"strings"
 
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
+	"github.com/conelight/conelight/sim/muon"
 )
 
 // Version is the conelight version recorded in event files.
@@ -23,16 +26,12 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 	if shards == 0 {
 		shards = 1
 	}
-	w := s.cfg.Water.Config()
 	return event.RunInfo{
-		Seed:      s.cfg.Seed,
-		Generator: g.String(),
-		Version:   Version,
-		Water: fmt.Sprintf("T=%g C, band %g-%g nm, absorption x%g, Rayleigh x%g, Mie length %g cm at %g nm (exponent %g, g %g), attenuation length %g cm at %g nm",
-			w.TemperatureC, w.BandLo, w.BandHi, s.cfg.Water.AbsorptionScale(), w.RayleighScale,
-			w.MieLength, w.MieWavelength, w.MieExponent, w.MieG, w.AttenuationLength, w.AttenuationWavelength),
-		Options: fmt.Sprintf("liner reflectivity %g (diffuse %g), photon prescale %g, dark noise %v, em %+v, muon %+v",
-			s.cfg.Liner.Reflectivity, s.cfg.Liner.DiffuseFraction, s.prescale, !s.cfg.NoDarkNoise, s.cfg.EM, s.cfg.Muon),
+		Seed:            s.cfg.Seed,
+		Generator:       g.String(),
+		Version:         Version,
+		Water:           s.waterDescription(),
+		Options:         s.optionsDescription(),
 		ShardIndex:      opt.Shard,
 		ShardCount:      shards,
 		FirstEvent:      first,
@@ -40,7 +39,102 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 		Run:             event.Span{First: opt.First, N: opt.Count},
 		Trigger:         s.cfg.Trigger,
 		KeepUntriggered: s.cfg.KeepUntriggered,
+		Setup:           s.cfg.Name,
+		Dead:            s.deadSorted(),
+		ExtendedWindow:  s.cfg.ExtendedWindow,
+		Optics:          s.opticsRecord(),
 	}, nil
+}
+
+// opticsRecord returns the water and liner settings for the run record.
+func (s *Simulator) opticsRecord() event.Optics {
+	w := s.cfg.Water.Config()
+	if math.IsInf(w.MieLength, 1) {
+		w.MieLength = 0 // both switch the Mie component off
+	}
+	return event.Optics{Water: w, Liner: s.cfg.Liner, Recorded: true}
+}
+
+// deadSorted returns the dead sensors in index order, nil for none.
+func (s *Simulator) deadSorted() []int {
+	var d []int
+	for i, dead := range s.dead {
+		if dead {
+			d = append(d, i)
+		}
+	}
+	return d
+}
+
+// waterDescription describes the water optics in words for the run
+// record: only the settings that act, with their units.
+func (s *Simulator) waterDescription() string {
+	w := s.cfg.Water.Config()
+	var b strings.Builder
+	fmt.Fprintf(&b, "water at %g C, light simulated over %g-%g nm; ", w.TemperatureC, w.BandLo, w.BandHi)
+	if w.AttenuationLength > 0 {
+		fmt.Fprintf(&b, "attenuation length %g cm at %g nm (pure-water absorption scaled by %.4g)", w.AttenuationLength, w.AttenuationWavelength, s.cfg.Water.AbsorptionScale())
+	} else {
+		fmt.Fprintf(&b, "absorption %s", scaleWords(s.cfg.Water.AbsorptionScale()))
+	}
+	fmt.Fprintf(&b, "; Rayleigh scattering %s", scaleWords(w.RayleighScale))
+	if w.MieLength > 0 && !math.IsInf(w.MieLength, 1) {
+		fmt.Fprintf(&b, "; Mie-like scattering length %g cm at %g nm, scaling as wavelength^%g, mean cosine %g", w.MieLength, w.MieWavelength, w.MieExponent, w.MieG)
+	} else {
+		b.WriteString("; no Mie-like scattering")
+	}
+	return b.String()
+}
+
+// scaleWords says how a pure-water coefficient is scaled.
+func scaleWords(f float64) string {
+	switch f {
+	case 0:
+		return "off"
+	case 1:
+		return "of pure water"
+	}
+	return fmt.Sprintf("%g times that of pure water", f)
+}
+
+// optionsDescription lists the simulator settings that change the events,
+// in words, for the run record.
+func (s *Simulator) optionsDescription() string {
+	c := &s.cfg
+	dark := "on"
+	if c.NoDarkNoise {
+		dark = "off"
+	}
+	ext := "off"
+	if c.ExtendedWindow > 0 {
+		ext = fmt.Sprintf("%g ns after the primary trigger", c.ExtendedWindow)
+	}
+	mu := c.Muon
+	return fmt.Sprintf("liner reflectivity %g (diffuse fraction %g); photons traced: a fraction %.4g of those emitted; dark noise %s; extended window %s; "+
+		"electrons, positrons: stopped below %.4g MeV, delta rays above %.4g MeV, bremsstrahlung photons above %.4g MeV, photons absorbed below %.4g MeV, steps of at most %g cm and %g of the energy; "+
+		"muons, pions, protons: delta rays above %g MeV, steps of at most %g cm and %g of the energy (%g below the Cherenkov threshold), followed down to %g MeV%s",
+		c.Liner.Reflectivity, c.Liner.DiffuseFraction, s.prescale, dark, ext,
+		c.EM.ChargedCut, c.EM.DeltaCut, c.EM.BremsCut, c.EM.PhotonCut, c.EM.MaxStep, c.EM.MaxEnergyLossFraction,
+		mu.DeltaCut, mu.MaxStep, mu.MaxFracLoss, mu.MaxFracLossBelowThreshold, mu.LowCut, heavySwitches(mu))
+}
+
+// heavySwitches names the processes switched off in the heavy-particle
+// transport.
+func heavySwitches(c muon.Config) string {
+	var off []string
+	if c.NoScattering {
+		off = append(off, "multiple scattering")
+	}
+	if c.NoStraggling {
+		off = append(off, "straggling")
+	}
+	if c.NoDeltaRays {
+		off = append(off, "delta rays")
+	}
+	if len(off) == 0 {
+		return ""
+	}
+	return "; switched off: " + strings.Join(off, ", ")
 }
 
 // WriteRun runs the simulation like Run and streams the kept events to a

@@ -5,9 +5,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
-
-	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/cherenkov"
@@ -109,8 +106,21 @@ type worker struct {
 	pes     []pmt.Photoelectron
 	hits    []pmt.Hit
 	visible []float64
-	traced  int
-	err     error
+	// Readout scratch (readout.go): sorted signal times, their clusters,
+	// the photoelectrons of one window, the hits after the primary
+	// readout, the dark photoelectrons counted.
+	times  []float64
+	spans  []span
+	piece  []pmt.Photoelectron
+	later  []pmt.Hit
+	darkPE int
+	// Vertex truth (vertices.go).
+	nPrimaries int
+	secs       []phys.Particle
+	trackPDG   []int32
+	ends       []trackEnd
+	traced     int
+	err        error
 }
 
 func (s *Simulator) newWorker() (*worker, error) {
@@ -150,9 +160,6 @@ func (w *worker) Segment(seg phys.Segment) {
 	w.pes = w.s.tracer.TraceAll(w.photons, w.rng, w.pes, nil)
 }
 
-func (w *worker) Secondary(phys.Particle)                  {}
-func (w *worker) Deposit(r3.Vector, float64, float64, int) {}
-
 // Event simulates one event with the given primaries, using the event's
 // own random stream EventStream(Seed, number). The primaries are copied.
 func (s *Simulator) Event(number uint64, primaries []phys.Particle) (*event.Event, error) {
@@ -187,6 +194,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		return nil, errors.New("sim: event has no primaries")
 	}
 	w.rng, w.err, w.traced = rng, nil, 0
+	w.startVertices(primaries)
 	w.pes = w.pes[:0]
 	w.visible = append(w.visible[:0], make([]float64, len(primaries))...)
 	tracks, err := w.tracker.Run(primaries, s.cfg.Detector, rng, w)
@@ -212,6 +220,7 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		}
 	}
 	tt.Photons = w.traced
+	tt.Vertices = w.vertices(tracks)
 	nLive := 0
 	for _, pe := range w.pes {
 		if s.isDead(pe.Sensor) {
@@ -228,46 +237,8 @@ func (w *worker) simulate(number uint64, rng *rand.Rand, primaries []phys.Partic
 		}
 	}
 	tt.Photoelectrons = nLive
-	// Dark pulses over the span of the signal plus the readout margins,
-	// so that any trigger found has dark noise over its whole window.
-	t0, t1 := primaries[0].Time, primaries[0].Time
-	for _, pe := range w.pes {
-		t0, t1 = math.Min(t0, pe.Time), math.Max(t1, pe.Time)
-	}
-	tg := s.cfg.Trigger
-	t0 -= tg.PreTrigger + tg.Window
-	t1 += tg.PostTrigger
-	if !s.cfg.NoDarkNoise {
-		n := len(w.pes)
-		w.pes, err = s.cfg.Sensor.AddDark(w.pes, s.cfg.Detector.NumSensors(), t0, t1, rng)
-		if err != nil {
-			return nil, fmt.Errorf("sim: event %d: %w", number, err)
-		}
-		for _, pe := range w.pes[n:] {
-			if !s.isDead(pe.Sensor) {
-				tt.DarkPE++
-			}
-		}
-	}
-	// Dead sensors are dropped after digitization rather than before, so
-	// that the event's random stream is drawn the same with or without
-	// them: the live sensors' hits do not depend on which sensors are dead.
-	w.hits, err = w.dig.Digitize(w.pes, s.cfg.Detector.NumSensors(), rng, w.hits[:0])
-	if err != nil {
+	if err := w.readout(ev, primaries[0].Time); err != nil {
 		return nil, fmt.Errorf("sim: event %d: %w", number, err)
-	}
-	if s.dead != nil {
-		w.hits = slices.DeleteFunc(w.hits, func(h pmt.Hit) bool { return s.dead[h.Sensor] })
-	}
-	t, ok, err := tg.Find(w.hits)
-	if err != nil {
-		return nil, fmt.Errorf("sim: event %d: %w", number, err)
-	}
-	if ok {
-		tt.Triggered, tt.TriggerTime = true, t
-		ev.Hits = tg.Readout(w.hits, t, nil)
-	} else {
-		ev.Hits = append([]pmt.Hit(nil), w.hits...)
 	}
 	// The transport codes check the primaries they follow; this also
 	// catches an untracked primary (copied to the truth unfollowed) with a

@@ -11,7 +11,8 @@ import (
 // the generator-agnostic part of it, event.Interaction (incoming
 // neutrino with its total energy Etot and unit direction Dir, target,
 // Q2, process ID in the NuHepMC numbering, event weight, outgoing
-// nucleon, the event's number in the generator's file), in the same
+// nucleon, the event's number in the generator's file, the lab position
+// and time a NuHepMC file gives), in the same
 // words for the built-in generators and for generator files.
 // InteractionTruth is the one place where one becomes the other.
 //
@@ -64,6 +65,9 @@ func InteractionTruth(g gen.Generator, info gen.Info) event.Interaction {
 	}
 	if fromFile {
 		in.FromFile, in.SourceEvent = true, int64(info.SourceEvent)
+	}
+	if info.HasLabPos {
+		in.LabPos, in.LabTime, in.HasLabPos = info.LabPos, info.LabTime, true
 	}
 	return in
 }

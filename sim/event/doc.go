@@ -55,14 +55,20 @@
 // changed data; panics inside groot's decoder are recovered as errors as
 // well. See integrity.go and preflight.go.
 //
-// # File layout (format "conelight-events", version 2)
+// # File layout (format "conelight-events", version 3)
 //
-// Version 2 (this one) added to the events tree the interaction columns
+// Version 3 (this one) added to the events tree the lab position (lab_*),
+// the sub-events (later triggers), the extended-window hits and the
+// decay and capture vertices with their products; to the run tree the
+// setup name, the dead sensors, the extended window and the water and liner
+// settings as numbers. Open reads
+// versions 1, 2 and 3; the columns a version lacks read as zero or empty.
+//
+// Version 2 added to the events tree the interaction columns
 // process, weight, source_event and from_file and renamed nu_energy to
 // nu_etot; to the run tree run_first, run_events, interrupted, the
 // missing spans and the source accounting; the run tree is written last.
-// Open reads versions 1 and 2 (version 1's missing columns read as zero,
-// its Run span as unknown unless the file is a whole run).
+// Version 1's Run span reads as unknown unless the file is a whole run.
 //
 // Four trees and one string object. All names are of this package's
 // design. Integer codes: PDG Monte Carlo numbering for particles; Fate
@@ -113,10 +119,31 @@
 //	nucleon_pdg ... nucleon_track                outgoing nucleon, the 11 fields of a
 //	                                             primary (scalars: x, y, z, dx, dy, dz, t, ekin,
 //	                                             parent, track)
-//	n_hit                  int32                 number of hits
+//	lab_x, lab_y, lab_z    float64       cm      lab position from the generator's file (v3)
+//	lab_t                  float64       ns      lab time (v3)
+//	has_lab                bool                  the file gave a lab position (v3)
+//	n_hit                  int32                 number of hits of the primary readout
 //	hit_sensor             int32[n]              sensor index, 0 .. n_sensor-1
-//	hit_time               float64[n]    ns      hit time
+//	hit_time               float64[n]    ns      hit time (event clock)
 //	hit_charge             float64[n]    pe      integrated charge
+//	n_sub                  int32                 number of sub-events (later triggers) (v3)
+//	sub_time               float64[n]    ns      trigger time relative to trigger_time
+//	sub_n_hit              int32[n]              hits of each sub-event; they sum to n_sub_hit
+//	n_sub_hit              int32                 hits of all sub-events, in sub-event order
+//	sub_hit_sensor, _time, _charge  [n]          as hit_*; times on the event clock
+//	n_ext_hit              int32                 hits of the extended window (v3)
+//	ext_hit_sensor, _time, _charge  [n]          as hit_*: every hit after the primary
+//	                                             readout up to trigger_time + extended_window
+//	n_vertex               int32                 decays and captures (v3)
+//	vertex_track           int32[n]              track number of the particle
+//	vertex_pdg             int32[n]              its PDG code
+//	vertex_process         int32[n]              Fate code: stopped-decayed, decayed-in-flight,
+//	                                             stopped-captured, captured
+//	vertex_t               float64[n]    ns      time
+//	vertex_x, _y, _z       float64[n]    cm      position
+//	vertex_n_product       int32[n]              products of each vertex; they sum to n_product
+//	n_product              int32                 products of all vertices, in vertex order
+//	product_pdg ... product_track  [n]           the 11 fields of a primary
 //	crc32c                 uint32                entry checksum
 //
 // Tree "detector", one entry (geom.Detector):
@@ -152,7 +179,7 @@
 // Tree "run", one entry (RunInfo and the format identification):
 //
 //	format                    string              "conelight-events"
-//	format_version            int32               2
+//	format_version            int32               3
 //	seed                      uint64
 //	generator, version, water, options  string    descriptions in the simulator's words
 //	shard_index, shard_count  int32
@@ -168,6 +195,23 @@
 //	trigger_window            float64        ns
 //	trigger_pre, trigger_post float64        ns   readout before and after the trigger time
 //	keep_untriggered          bool
+//	setup_name                string              detector description's name (v3)
+//	n_dead                    int32               dead sensors (v3)
+//	dead                      int32[n]            their indices, sorted
+//	extended_window           float64        ns   0: off (v3)
+//	optics_recorded           bool                the water and liner settings follow (v3)
+//	water_temperature         float64        C    optics.WaterConfig: TemperatureC
+//	water_band_lo, _band_hi   float64        nm   BandLo, BandHi
+//	water_absorption_scale    float64             AbsorptionScale (as configured)
+//	water_rayleigh_scale      float64             RayleighScale
+//	water_mie_length          float64        cm   MieLength (0: off)
+//	water_mie_wavelength      float64        nm   MieWavelength
+//	water_mie_exponent        float64             MieExponent
+//	water_mie_g               float64             MieG
+//	water_attenuation_length  float64        cm   AttenuationLength (0: not set)
+//	water_attenuation_wavelength float64     nm   AttenuationWavelength
+//	liner_reflectivity        float64             optics.Liner: Reflectivity
+//	liner_diffuse_fraction    float64             DiffuseFraction
 //	crc32c                    uint32
 //
 // TObjString "integrity": text lines "conelight-integrity 1", "region B E"

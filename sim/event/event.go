@@ -3,6 +3,7 @@ package event
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/golang/geo/r3"
 
@@ -21,7 +22,31 @@ type Event struct {
 	// Truth is what happened in the event; the detector cannot see it.
 	Truth Truth
 	// Hits are the digitized sensor signals read out (sensor index, time ns,
-	// charge pe), as pmt.Digitizer and pmt.Trigger.Readout produce them.
+	// charge pe), as pmt.Digitizer and pmt.Trigger.Readout produce them:
+	// the readout window of the primary trigger (Truth.TriggerTime), or
+	// every hit of an event whose trigger never fired.
+	Hits []pmt.Hit
+	// SubEvents are the later triggers of the event (a muon's decay
+	// electron, a neutron capture), each read out over its own window, in
+	// time order; nil when only the primary trigger fired.
+	SubEvents []SubEvent
+	// Extended holds every hit after the primary readout window up to
+	// the end of the simulator's extended window (Truth.TriggerTime +
+	// ExtendedWindow), whether or not a later trigger fired there, for
+	// tagging signals below the trigger threshold; hits of sub-events in
+	// that span appear here too. Nil when the window is off.
+	Extended []pmt.Hit
+}
+
+// SubEvent is a later trigger of an event, read out over its own window
+// [trigger - PreTrigger, trigger + PostTrigger], starting no earlier than
+// the end of the previous readout window.
+type SubEvent struct {
+	// Time is the trigger time relative to the primary trigger, ns
+	// (positive).
+	Time float64
+	// Hits are the hits read out, with times on the event clock (like
+	// Event.Hits), sorted by time.
 	Hits []pmt.Hit
 }
 
@@ -60,6 +85,30 @@ type Truth struct {
 	// the event; the zero value when the generator made none (a particle
 	// gun).
 	Interaction Interaction
+
+	// Vertices are the decays and captures of the event in time order:
+	// where and when a particle decayed or was captured and what it made.
+	Vertices []Vertex
+}
+
+// Vertex is the truth of one decay or capture.
+type Vertex struct {
+	// Track is the track number of the particle that decayed or was
+	// captured (primaries are 1..n in the order of Truth.Primaries).
+	Track int
+	// PDG is that particle's PDG code.
+	PDG int
+	// Process is how its track ended: phys.StoppedDecayed,
+	// phys.DecayedInFlight, phys.StoppedCaptured or phys.Captured.
+	Process phys.Fate
+	// Time (ns, event clock) and Pos (cm) locate the decay or capture.
+	Time float64
+	Pos  r3.Vector
+	// Products are the particles it made that the simulator follows (the
+	// decay electron, the capture gammas, a pion's muon); neutrinos and
+	// nuclear remnants are not listed. Empty for a mu- capture, whose
+	// products are not simulated.
+	Products []phys.Particle
 }
 
 // Interaction is the truth of the interaction that made an event, in the
@@ -97,6 +146,12 @@ type Interaction struct {
 	// FromFile says the event came from a file (else SourceEvent is 0).
 	SourceEvent int64
 	FromFile    bool
+	// LabPos (cm) and LabTime (ns) are the event's position and time in
+	// the laboratory as the generator's file gives them (NuHepMC lab
+	// position); HasLabPos says it gave them (else both are zero).
+	LabPos    r3.Vector
+	LabTime   float64
+	HasLabPos bool
 }
 
 // Track is the transport summary of one primary particle.
@@ -125,7 +180,9 @@ type Track struct {
 // Validate checks e for storage with a detector of nSensors sensors: every
 // hit sensor index in [0, nSensors), every float finite, every count
 // non-negative, the photoelectron split summing to Photoelectrons, every
-// Fate known and every integer small enough for the 32-bit file columns.
+// Fate known, every integer small enough for the 32-bit file columns, and
+// sub-events (in increasing time after the primary trigger) and extended
+// hits only in a triggered event.
 // The error names the first bad field and its value. Validate does not
 // allocate unless it fails.
 func (e *Event) Validate(nSensors int) error {
@@ -135,19 +192,8 @@ func (e *Event) Validate(nSensors int) error {
 	fail := func(field, msg string) error {
 		return fmt.Errorf("event: event %d: %s = %s", e.Number, field, msg)
 	}
-	if msg := badLength(len(e.Hits)); msg != "" {
-		return fail("len(Hits)", msg)
-	}
-	for i, h := range e.Hits {
-		if h.Sensor < 0 || h.Sensor >= nSensors {
-			return fail(fmt.Sprintf("Hits[%d].Sensor", i), fmt.Sprintf("%d outside [0, %d)", h.Sensor, nSensors))
-		}
-		if msg := badFloat(h.Time); msg != "" {
-			return fail(fmt.Sprintf("Hits[%d].Time", i), msg)
-		}
-		if msg := badFloat(h.Charge); msg != "" {
-			return fail(fmt.Sprintf("Hits[%d].Charge", i), msg)
-		}
+	if field, msg := badHits(e.Hits, nSensors); msg != "" {
+		return fail(field, msg)
 	}
 	t := &e.Truth
 	if msg := badLength(len(t.Primaries)); msg != "" {
@@ -185,7 +231,78 @@ func (e *Event) Validate(nSensors int) error {
 	if field, msg := badInteraction(&t.Interaction); msg != "" {
 		return fail("Truth.Interaction."+field, msg)
 	}
+	if msg := badLength(len(t.Vertices)); msg != "" {
+		return fail("len(Truth.Vertices)", msg)
+	}
+	for i := range t.Vertices {
+		if field, msg := badVertex(&t.Vertices[i]); msg != "" {
+			return fail(fmt.Sprintf("Truth.Vertices[%d].%s", i, field), msg)
+		}
+	}
+	if msg := badLength(len(e.SubEvents)); msg != "" {
+		return fail("len(SubEvents)", msg)
+	}
+	prev := 0.0
+	for i := range e.SubEvents {
+		sub := &e.SubEvents[i]
+		if msg := badFloat(sub.Time); msg != "" {
+			return fail(fmt.Sprintf("SubEvents[%d].Time", i), msg)
+		}
+		if !(sub.Time > prev) {
+			return fail(fmt.Sprintf("SubEvents[%d].Time", i), fmt.Sprintf("%v must be after the primary trigger and the sub-event before (%v)", sub.Time, prev))
+		}
+		prev = sub.Time
+		if field, msg := badHits(sub.Hits, nSensors); msg != "" {
+			return fail(fmt.Sprintf("SubEvents[%d].%s", i, field), msg)
+		}
+	}
+	if field, msg := badHits(e.Extended, nSensors); msg != "" {
+		return fail("Extended"+strings.TrimPrefix(field, "Hits"), msg)
+	}
+	if !t.Triggered && (len(e.SubEvents) > 0 || len(e.Extended) > 0) {
+		return fail("Truth.Triggered", fmt.Sprintf("false with %d sub-events and %d extended hits; both need a primary trigger", len(e.SubEvents), len(e.Extended)))
+	}
 	return nil
+}
+
+// badHits checks a list of hits (the field is "Hits[i].Sensor" etc.).
+func badHits(hits []pmt.Hit, nSensors int) (string, string) {
+	if msg := badLength(len(hits)); msg != "" {
+		return "len(Hits)", msg
+	}
+	for i, h := range hits {
+		if h.Sensor < 0 || h.Sensor >= nSensors {
+			return fmt.Sprintf("Hits[%d].Sensor", i), fmt.Sprintf("%d outside [0, %d)", h.Sensor, nSensors)
+		}
+		if msg := badFloat(h.Time); msg != "" {
+			return fmt.Sprintf("Hits[%d].Time", i), msg
+		}
+		if msg := badFloat(h.Charge); msg != "" {
+			return fmt.Sprintf("Hits[%d].Charge", i), msg
+		}
+	}
+	return "", ""
+}
+
+func badVertex(v *Vertex) (string, string) {
+	fate := ""
+	if !v.Process.Valid() {
+		fate = fmt.Sprintf("%d is not a known fate", int(v.Process))
+	}
+	if f, msg := first(
+		complaint{"Track", badInt32(v.Track)}, complaint{"PDG", badInt32(v.PDG)}, complaint{"Process", fate},
+		complaint{"Time", badFloat(v.Time)},
+		complaint{"Pos.X", badFloat(v.Pos.X)}, complaint{"Pos.Y", badFloat(v.Pos.Y)}, complaint{"Pos.Z", badFloat(v.Pos.Z)},
+		complaint{"len(Products)", badLength(len(v.Products))},
+	); msg != "" {
+		return f, msg
+	}
+	for i := range v.Products {
+		if f, msg := badParticle(&v.Products[i]); msg != "" {
+			return fmt.Sprintf("Products[%d].%s", i, f), msg
+		}
+	}
+	return "", ""
 }
 
 // The bad* helpers return "" for a good value, else the complaint (and
@@ -267,6 +384,8 @@ func badInteraction(in *Interaction) (string, string) {
 		complaint{"Target", badInt32(in.Target)}, complaint{"Q2", badFloat(in.Q2)},
 		complaint{"Process", badInt32(in.Process)}, complaint{"Weight", badFloat(in.Weight)},
 		complaint{"SourceEvent", source},
+		complaint{"LabPos.X", badFloat(in.LabPos.X)}, complaint{"LabPos.Y", badFloat(in.LabPos.Y)}, complaint{"LabPos.Z", badFloat(in.LabPos.Z)},
+		complaint{"LabTime", badFloat(in.LabTime)},
 	); msg != "" {
 		return f, msg
 	}

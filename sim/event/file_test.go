@@ -244,6 +244,21 @@ func TestWriteRejectsBadEvents(t *testing.T) {
 		{"Truth.TriggerTime = 5 must be 0 when Triggered is false", func(e *Event) { e.Truth.Triggered, e.Truth.TriggerTime = false, 5 }},
 		{"Truth.Interaction.Nucleon.Ekin = -Inf", func(e *Event) { e.Truth.Interaction.Nucleon.Ekin = -inf() }},
 		{"Truth.Interaction.Weight = NaN", func(e *Event) { e.Truth.Interaction.Weight = nan() }},
+		{"SubEvents[1].Time = 3 must be after the primary trigger and the sub-event before (5)", func(e *Event) {
+			e.Truth.Triggered, e.SubEvents = true, []SubEvent{{Time: 5}, {Time: 3}}
+		}},
+		{"SubEvents[0].Hits[0].Sensor = 7 outside [0, 4)", func(e *Event) {
+			e.Truth.Triggered, e.SubEvents = true, []SubEvent{{Time: 5, Hits: []pmt.Hit{{Sensor: 7}}}}
+		}},
+		{"Extended[0].Time = NaN", func(e *Event) { e.Truth.Triggered, e.Extended = true, []pmt.Hit{{Time: nan()}} }},
+		{"Truth.Triggered = false with 1 sub-events", func(e *Event) {
+			e.Truth.Triggered, e.Truth.TriggerTime, e.SubEvents = false, 0, []SubEvent{{Time: 5}}
+		}},
+		{"Truth.Vertices[0].Products[1].Time = +Inf", func(e *Event) {
+			e.Truth.Vertices = []Vertex{{Process: phys.Captured, Products: []phys.Particle{{}, {Time: inf()}}}}
+		}},
+		{"Truth.Vertices[0].Process = 42 is not a known fate", func(e *Event) { e.Truth.Vertices = []Vertex{{Process: 42}} }},
+		{"Truth.Interaction.LabPos.Z = NaN", func(e *Event) { e.Truth.Interaction.LabPos.Z = nan() }},
 		{"Truth.Interaction.SourceEvent = 4 must be 0 when FromFile is false", func(e *Event) {
 			e.Truth.Interaction.SourceEvent, e.Truth.Interaction.FromFile = 4, false
 		}},

@@ -18,12 +18,17 @@ func goldenPath(v int) string {
 
 // goldenContent is what the golden file of format version v holds: a
 // fixed draw of random events in the small layout; from version 2 on, an
-// interrupted shard of a run from a generator file.
+// interrupted shard of a run from a generator file; from version 3 on,
+// with sub-events, extended hits, vertices, a setup name and dead
+// sensors.
 func goldenContent(t *testing.T, v int) (setup, RunInfo, []Event) {
 	s := smallSetup(t)
 	run := testRun(500, 8)
 	run.ShardIndex, run.ShardCount = 2, 5
 	events := randomEvents(21, 500, 6, s.det.NumSensors(), 12)
+	if v <= 2 {
+		events = asVersion2(events)
+	}
 	if v == 1 {
 		run.Run = Span{} // not recorded
 		return s, run, asVersion1(events)
@@ -32,6 +37,10 @@ func goldenContent(t *testing.T, v int) (setup, RunInfo, []Event) {
 	run.Interrupted = true
 	run.Missing = []Span{{First: 506, N: 2}}
 	run.Source = SourceStats{Read: 7, Skipped: 1, Reasons: []string{"event 3 (line 40): no particle the simulator tracks"}}
+	if v >= 3 {
+		run.Setup, run.Dead, run.ExtendedWindow = "small test layout", []int{0, 3}, 5e5
+		run.Optics = testOptics()
+	}
 	return s, run, events
 }
 

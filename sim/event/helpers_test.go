@@ -17,6 +17,7 @@ import (
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -143,7 +144,73 @@ func randomEvent(rng *rand.Rand, number uint64, nSensors, maxHits int) Event {
 			t.Interaction.SourceEvent = 0
 		}
 	}
+	addVersion3(&e, nSensors, maxHits)
 	return e
+}
+
+// addVersion3 fills the fields added in format version 3 from a stream
+// of their own, so that the earlier fields keep the draws of the older
+// golden files.
+func addVersion3(e *Event, nSensors, maxHits int) {
+	rng := rand.New(rand.NewPCG(e.Number, 3))
+	n := func(max int) int {
+		if rng.IntN(4) == 0 {
+			return 0
+		}
+		return 1 + rng.IntN(max)
+	}
+	hits := func(k int, t0 float64) []pmt.Hit {
+		if k == 0 {
+			return nil
+		}
+		h := make([]pmt.Hit, k)
+		for i := range h {
+			h[i] = pmt.Hit{Sensor: rng.IntN(nSensors), Time: t0 + rng.Float64()*1000, Charge: rng.ExpFloat64()}
+		}
+		return h
+	}
+	t := &e.Truth
+	if t.Interaction.PDG != 0 && rng.IntN(2) == 0 {
+		t.Interaction.LabPos, t.Interaction.LabTime, t.Interaction.HasLabPos = randomVector(rng, 1e5), rng.Float64()*1e9, true
+	}
+	if t.Triggered {
+		if k := n(3); k > 0 {
+			e.SubEvents = make([]SubEvent, k)
+			dt := 0.0
+			for i := range e.SubEvents {
+				dt += 2000 * (1 + rng.Float64())
+				e.SubEvents[i] = SubEvent{Time: dt, Hits: hits(n(maxHits), t.TriggerTime+dt)}
+			}
+		}
+		e.Extended = hits(n(maxHits), t.TriggerTime+1000)
+	}
+	if k := n(3); k > 0 {
+		t.Vertices = make([]Vertex, k)
+		for i := range t.Vertices {
+			v := Vertex{Track: 1 + rng.IntN(20), PDG: randomParticle(rng).PDG, Process: phys.Fate(rng.IntN(int(phys.Captured) + 1)),
+				Time: rng.ExpFloat64() * 2000, Pos: randomVector(rng, 300)}
+			if p := n(3); p > 0 {
+				v.Products = make([]phys.Particle, p)
+				for j := range v.Products {
+					v.Products[j] = randomParticle(rng)
+				}
+			}
+			t.Vertices[i] = v
+		}
+	}
+}
+
+// asVersion2 returns events as a file of format version 2 holds them:
+// without the fields added in version 3.
+func asVersion2(events []Event) []Event {
+	out := slices.Clone(events)
+	for i := range out {
+		e := &out[i]
+		e.SubEvents, e.Extended, e.Truth.Vertices = nil, nil, nil
+		in := &e.Truth.Interaction
+		in.LabPos, in.LabTime, in.HasLabPos = r3.Vector{}, 0, false
+	}
+	return out
 }
 
 // asVersion1 returns events as a file of format version 1 holds them:
@@ -294,4 +361,13 @@ func unsetenv(t testing.TB, key string) {
 	if err := os.Unsetenv(key); err != nil {
 		t.Fatal(err)
 	}
+}
+
+// testOptics are recorded optics settings with every field set.
+func testOptics() Optics {
+	w := optics.DefaultWaterConfig()
+	w.TemperatureC, w.AbsorptionScale, w.RayleighScale = 13.5, 1.25, 0.9
+	w.MieLength, w.MieG = 2e4, 0.85
+	w.AttenuationLength, w.AttenuationWavelength = 6000, 420
+	return Optics{Water: w, Liner: optics.Liner{Reflectivity: 0.07, DiffuseFraction: 0.4}, Recorded: true}
 }

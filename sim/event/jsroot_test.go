@@ -85,6 +85,8 @@ func TestJSROOT(t *testing.T) {
 	s := smallSetup(t)
 	run := testRun(500, 40)
 	run.Seed = 1<<63 + 12345 // beyond 2^53: 64-bit integers must survive
+	run.Setup, run.Dead, run.ExtendedWindow = "small test layout", []int{1, 2}, 1e6
+	run.Optics = testOptics()
 	events := randomEvents(77, 500, 40, s.det.NumSensors(), 12)
 	var multi, hits, nu int
 	for _, e := range events {

@@ -94,6 +94,9 @@ func newReader(path string, src riofs.Reader, size int64) (_ *Reader, err error)
 	if r.det, err = dr.detector(); err != nil {
 		return nil, r.errorf("tree %q: %w", detectorTree, err)
 	}
+	if err := r.run.checkDead(r.det.NumSensors()); err != nil {
+		return nil, r.errorf("tree %q: %w", runTree, err)
+	}
 	var sr sensorRecord
 	if err := r.readSingle(sensorTree, sr.cols()); err != nil {
 		return nil, err

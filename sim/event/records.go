@@ -8,6 +8,7 @@ import (
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -23,7 +24,7 @@ const (
 	// schema in the package documentation; Open reads every version from
 	// oldestVersion on.
 	FormatName    = "conelight-events"
-	FormatVersion = 2
+	FormatVersion = 3
 	oldestVersion = 1
 )
 
@@ -147,10 +148,77 @@ type eventRecord struct {
 	NHit               int32
 	HitSensor          []int32
 	HitTime, HitCharge []float64
+
+	// Version 3: lab position, sub-events, extended hits, vertices.
+	LabX, LabY, LabZ, LabT float64
+	HasLab                 bool
+	NSub                   int32
+	SubTime                []float64
+	SubNHit                []int32
+	SubHits                hitArrays
+	ExtHits                hitArrays
+	NVertex                int32
+	VtxTrack, VtxPDG       []int32
+	VtxProcess, VtxNProd   []int32
+	VtxT, VtxX, VtxY, VtxZ []float64
+	Products               particleArrays
+
+	subLists [][]pmt.Hit     // scratch of set
+	products []phys.Particle // scratch of set
 }
 
-// cols returns the columns of format version v (1 or 2). Version 1 had
-// nu_energy for nu_etot and no process, weight or source columns.
+// hitArrays holds a list of hits as parallel arrays.
+type hitArrays struct {
+	N            int32
+	Sensor       []int32
+	Time, Charge []float64
+}
+
+func (h *hitArrays) cols(prefix, count string) []column {
+	return []column{
+		{name: count, ptr: &h.N},
+		{name: prefix + "sensor", ptr: &h.Sensor, count: count},
+		{name: prefix + "time", ptr: &h.Time, count: count},
+		{name: prefix + "charge", ptr: &h.Charge, count: count},
+	}
+}
+
+// set fills h with the hits of every list in turn.
+func (h *hitArrays) set(lists ...[]pmt.Hit) {
+	n := 0
+	for _, l := range lists {
+		n += len(l)
+	}
+	h.N = int32(n)
+	h.Sensor, h.Time, h.Charge = resize(h.Sensor, n), resize(h.Time, n), resize(h.Charge, n)
+	i := 0
+	for _, l := range lists {
+		for _, x := range l {
+			h.Sensor[i], h.Time[i], h.Charge[i] = int32(x.Sensor), x.Time, x.Charge
+			i++
+		}
+	}
+}
+
+func (h *hitArrays) lengthsAgree() bool {
+	return allEqual(int(h.N), len(h.Sensor), len(h.Time), len(h.Charge))
+}
+
+// hits returns hits [lo, hi) as a fresh slice, nil when empty.
+func (h *hitArrays) hits(lo, hi int) []pmt.Hit {
+	if hi <= lo {
+		return nil
+	}
+	out := make([]pmt.Hit, hi-lo)
+	for i := range out {
+		out[i] = pmt.Hit{Sensor: int(h.Sensor[lo+i]), Time: h.Time[lo+i], Charge: h.Charge[lo+i]}
+	}
+	return out
+}
+
+// cols returns the columns of format version v (1 to 3). Version 1 had
+// nu_energy for nu_etot and no process, weight or source columns; version
+// 2 no lab position, sub-events, extended hits or vertices.
 func (r *eventRecord) cols(v int32) []column {
 	etot := "nu_etot"
 	if v == 1 {
@@ -192,12 +260,43 @@ func (r *eventRecord) cols(v int32) []column {
 		)
 	}
 	cols = append(cols, r.Nucleon.cols("nucleon_")...)
-	return append(cols,
+	if v >= 3 {
+		cols = append(cols,
+			column{name: "lab_x", ptr: &r.LabX},
+			column{name: "lab_y", ptr: &r.LabY},
+			column{name: "lab_z", ptr: &r.LabZ},
+			column{name: "lab_t", ptr: &r.LabT},
+			column{name: "has_lab", ptr: &r.HasLab},
+		)
+	}
+	cols = append(cols,
 		column{name: "n_hit", ptr: &r.NHit},
 		column{name: "hit_sensor", ptr: &r.HitSensor, count: "n_hit"},
 		column{name: "hit_time", ptr: &r.HitTime, count: "n_hit"},
 		column{name: "hit_charge", ptr: &r.HitCharge, count: "n_hit"},
 	)
+	if v < 3 {
+		return cols
+	}
+	cols = append(cols,
+		column{name: "n_sub", ptr: &r.NSub},
+		column{name: "sub_time", ptr: &r.SubTime, count: "n_sub"},
+		column{name: "sub_n_hit", ptr: &r.SubNHit, count: "n_sub"},
+	)
+	cols = append(cols, r.SubHits.cols("sub_hit_", "n_sub_hit")...)
+	cols = append(cols, r.ExtHits.cols("ext_hit_", "n_ext_hit")...)
+	cols = append(cols,
+		column{name: "n_vertex", ptr: &r.NVertex},
+		column{name: "vertex_track", ptr: &r.VtxTrack, count: "n_vertex"},
+		column{name: "vertex_pdg", ptr: &r.VtxPDG, count: "n_vertex"},
+		column{name: "vertex_process", ptr: &r.VtxProcess, count: "n_vertex"},
+		column{name: "vertex_t", ptr: &r.VtxT, count: "n_vertex"},
+		column{name: "vertex_x", ptr: &r.VtxX, count: "n_vertex"},
+		column{name: "vertex_y", ptr: &r.VtxY, count: "n_vertex"},
+		column{name: "vertex_z", ptr: &r.VtxZ, count: "n_vertex"},
+		column{name: "vertex_n_product", ptr: &r.VtxNProd, count: "n_vertex"},
+	)
+	return append(cols, r.Products.cols("product_", "n_product")...)
 }
 
 // set fills r from a validated event, reusing r's slices.
@@ -228,6 +327,32 @@ func (r *eventRecord) set(e *Event) {
 	r.NuDX, r.NuDY, r.NuDZ = in.Dir.X, in.Dir.Y, in.Dir.Z
 	r.SourceEvent, r.FromFile = in.SourceEvent, in.FromFile
 	r.Nucleon.set(&in.Nucleon)
+	r.LabX, r.LabY, r.LabZ, r.LabT, r.HasLab = in.LabPos.X, in.LabPos.Y, in.LabPos.Z, in.LabTime, in.HasLabPos
+
+	n = len(e.SubEvents)
+	r.NSub = int32(n)
+	r.SubTime, r.SubNHit = resize(r.SubTime, n), resize(r.SubNHit, n)
+	r.subLists = r.subLists[:0]
+	for i := range e.SubEvents {
+		sub := &e.SubEvents[i]
+		r.SubTime[i], r.SubNHit[i] = sub.Time, int32(len(sub.Hits))
+		r.subLists = append(r.subLists, sub.Hits)
+	}
+	r.SubHits.set(r.subLists...)
+	r.ExtHits.set(e.Extended)
+
+	n = len(t.Vertices)
+	r.NVertex = int32(n)
+	r.VtxTrack, r.VtxPDG, r.VtxProcess, r.VtxNProd = resize(r.VtxTrack, n), resize(r.VtxPDG, n), resize(r.VtxProcess, n), resize(r.VtxNProd, n)
+	r.VtxT, r.VtxX, r.VtxY, r.VtxZ = resize(r.VtxT, n), resize(r.VtxX, n), resize(r.VtxY, n), resize(r.VtxZ, n)
+	r.products = r.products[:0]
+	for i := range t.Vertices {
+		v := &t.Vertices[i]
+		r.VtxTrack[i], r.VtxPDG[i], r.VtxProcess[i], r.VtxNProd[i] = int32(v.Track), int32(v.PDG), int32(v.Process), int32(len(v.Products))
+		r.VtxT[i], r.VtxX[i], r.VtxY[i], r.VtxZ[i] = v.Time, v.Pos.X, v.Pos.Y, v.Pos.Z
+		r.products = append(r.products, v.Products...)
+	}
+	r.Products.set(r.products)
 
 	n = len(e.Hits)
 	r.NHit = int32(n)
@@ -250,6 +375,24 @@ func (r *eventRecord) event() (Event, error) {
 	if !allEqual(nh, len(r.HitSensor), len(r.HitTime), len(r.HitCharge)) {
 		return Event{}, fmt.Errorf("hit arrays disagree with n_hit = %d", nh)
 	}
+	if !r.SubHits.lengthsAgree() || !r.ExtHits.lengthsAgree() || !r.Products.lengthsAgree() {
+		return Event{}, fmt.Errorf("sub-event, extended or product arrays disagree with their counts n_sub_hit = %d, n_ext_hit = %d, n_product = %d",
+			r.SubHits.N, r.ExtHits.N, r.Products.N)
+	}
+	ns := int(r.NSub)
+	if !allEqual(ns, len(r.SubTime), len(r.SubNHit)) {
+		return Event{}, fmt.Errorf("sub-event arrays disagree with n_sub = %d", ns)
+	}
+	nv := int(r.NVertex)
+	if !allEqual(nv, len(r.VtxTrack), len(r.VtxPDG), len(r.VtxProcess), len(r.VtxNProd), len(r.VtxT), len(r.VtxX), len(r.VtxY), len(r.VtxZ)) {
+		return Event{}, fmt.Errorf("vertex arrays disagree with n_vertex = %d", nv)
+	}
+	if err := checkParts("sub_n_hit", r.SubNHit, int(r.SubHits.N)); err != nil {
+		return Event{}, err
+	}
+	if err := checkParts("vertex_n_product", r.VtxNProd, int(r.Products.N)); err != nil {
+		return Event{}, err
+	}
 	e := Event{
 		Number: r.Number,
 		Truth: Truth{
@@ -268,6 +411,7 @@ func (r *eventRecord) event() (Event, error) {
 				Process: int(r.Process), Weight: r.Weight,
 				SourceEvent: r.SourceEvent, FromFile: r.FromFile,
 				Nucleon: r.Nucleon.particle(),
+				LabPos:  r3.Vector{X: r.LabX, Y: r.LabY, Z: r.LabZ}, LabTime: r.LabT, HasLabPos: r.HasLab,
 			},
 		},
 	}
@@ -286,7 +430,50 @@ func (r *eventRecord) event() (Event, error) {
 			e.Hits[i] = pmt.Hit{Sensor: int(r.HitSensor[i]), Time: r.HitTime[i], Charge: r.HitCharge[i]}
 		}
 	}
+	if ns > 0 {
+		e.SubEvents = make([]SubEvent, ns)
+		at := 0
+		for i := range e.SubEvents {
+			n := int(r.SubNHit[i])
+			e.SubEvents[i] = SubEvent{Time: r.SubTime[i], Hits: r.SubHits.hits(at, at+n)}
+			at += n
+		}
+	}
+	e.Extended = r.ExtHits.hits(0, int(r.ExtHits.N))
+	if nv > 0 {
+		e.Truth.Vertices = make([]Vertex, nv)
+		products := r.Products.particles()
+		at := 0
+		for i := range e.Truth.Vertices {
+			n := int(r.VtxNProd[i])
+			v := Vertex{
+				Track: int(r.VtxTrack[i]), PDG: int(r.VtxPDG[i]), Process: phys.Fate(r.VtxProcess[i]),
+				Time: r.VtxT[i], Pos: r3.Vector{X: r.VtxX[i], Y: r.VtxY[i], Z: r.VtxZ[i]},
+			}
+			if n > 0 {
+				v.Products = products[at : at+n : at+n]
+			}
+			e.Truth.Vertices[i] = v
+			at += n
+		}
+	}
 	return e, nil
+}
+
+// checkParts checks that the per-item counts parts (branch name) are
+// non-negative and sum to total.
+func checkParts(name string, parts []int32, total int) error {
+	sum := 0
+	for i, n := range parts {
+		if n < 0 {
+			return fmt.Errorf("%s[%d] = %d is negative", name, i, n)
+		}
+		sum += int(n)
+	}
+	if sum != total {
+		return fmt.Errorf("%s sums to %d, not the %d entries stored", name, sum, total)
+	}
+	return nil
 }
 
 // detectorRecord is the single entry of the detector tree.
@@ -433,6 +620,16 @@ type runRecord struct {
 	TrigThreshold                      int32
 	TrigWindow, TrigPre, TrigPost      float64
 	KeepUntriggered                    bool
+	SetupName                          string
+	NDead                              int32
+	Dead                               []int32
+	ExtendedWindow                     float64
+	WaterT, WaterBandLo, WaterBandHi   float64
+	WaterAbs, WaterRayleigh            float64
+	WaterMieL, WaterMieWl, WaterMieExp float64
+	WaterMieG, WaterAttL, WaterAttWl   float64
+	LinerRefl, LinerDiffuse            float64
+	OpticsRecorded                     bool
 }
 
 // runShardColumns are the run columns that may differ between shards of
@@ -449,8 +646,9 @@ func (r *runRecord) versionColumns() []column {
 	}
 }
 
-// cols returns the columns of format version v (1 or 2). Version 1 had
-// no run range, interruption, missing spans or source accounting.
+// cols returns the columns of format version v (1 to 3). Version 1 had
+// no run range, interruption, missing spans or source accounting; version
+// 2 no setup name, dead sensors or extended window.
 func (r *runRecord) cols(v int32) []column {
 	cols := append(r.versionColumns(),
 		column{name: "seed", ptr: &r.Seed},
@@ -476,13 +674,36 @@ func (r *runRecord) cols(v int32) []column {
 			column{name: "skip_reasons", ptr: &r.SkipReasons},
 		)
 	}
-	return append(cols,
+	cols = append(cols,
 		column{name: "trigger_threshold", ptr: &r.TrigThreshold},
 		column{name: "trigger_window", ptr: &r.TrigWindow},
 		column{name: "trigger_pre", ptr: &r.TrigPre},
 		column{name: "trigger_post", ptr: &r.TrigPost},
 		column{name: "keep_untriggered", ptr: &r.KeepUntriggered},
 	)
+	if v >= 3 {
+		cols = append(cols,
+			column{name: "setup_name", ptr: &r.SetupName},
+			column{name: "n_dead", ptr: &r.NDead},
+			column{name: "dead", ptr: &r.Dead, count: "n_dead"},
+			column{name: "extended_window", ptr: &r.ExtendedWindow},
+			column{name: "optics_recorded", ptr: &r.OpticsRecorded},
+			column{name: "water_temperature", ptr: &r.WaterT},
+			column{name: "water_band_lo", ptr: &r.WaterBandLo},
+			column{name: "water_band_hi", ptr: &r.WaterBandHi},
+			column{name: "water_absorption_scale", ptr: &r.WaterAbs},
+			column{name: "water_rayleigh_scale", ptr: &r.WaterRayleigh},
+			column{name: "water_mie_length", ptr: &r.WaterMieL},
+			column{name: "water_mie_wavelength", ptr: &r.WaterMieWl},
+			column{name: "water_mie_exponent", ptr: &r.WaterMieExp},
+			column{name: "water_mie_g", ptr: &r.WaterMieG},
+			column{name: "water_attenuation_length", ptr: &r.WaterAttL},
+			column{name: "water_attenuation_wavelength", ptr: &r.WaterAttWl},
+			column{name: "liner_reflectivity", ptr: &r.LinerRefl},
+			column{name: "liner_diffuse_fraction", ptr: &r.LinerDiffuse},
+		)
+	}
+	return cols
 }
 
 func (r *runRecord) set(ri *RunInfo) {
@@ -499,7 +720,19 @@ func (r *runRecord) set(ri *RunInfo) {
 		TrigThreshold: int32(ri.Trigger.Threshold), TrigWindow: ri.Trigger.Window,
 		TrigPre: ri.Trigger.PreTrigger, TrigPost: ri.Trigger.PostTrigger,
 		KeepUntriggered: ri.KeepUntriggered,
+		SetupName:       ri.Setup, NDead: int32(len(ri.Dead)), Dead: make([]int32, len(ri.Dead)),
+		ExtendedWindow: ri.ExtendedWindow,
 	}
+	for i, d := range ri.Dead {
+		r.Dead[i] = int32(d)
+	}
+	o := &ri.Optics
+	w := &o.Water
+	r.OpticsRecorded = o.Recorded
+	r.WaterT, r.WaterBandLo, r.WaterBandHi, r.WaterAbs, r.WaterRayleigh = w.TemperatureC, w.BandLo, w.BandHi, w.AbsorptionScale, w.RayleighScale
+	r.WaterMieL, r.WaterMieWl, r.WaterMieExp, r.WaterMieG = w.MieLength, w.MieWavelength, w.MieExponent, w.MieG
+	r.WaterAttL, r.WaterAttWl = w.AttenuationLength, w.AttenuationWavelength
+	r.LinerRefl, r.LinerDiffuse = o.Liner.Reflectivity, o.Liner.DiffuseFraction
 	for i, m := range ri.Missing {
 		r.MissingFirst[i], r.MissingN[i] = m.First, m.N
 	}
@@ -530,6 +763,24 @@ func (r *runRecord) run() (RunInfo, error) {
 			PreTrigger: r.TrigPre, PostTrigger: r.TrigPost,
 		},
 		KeepUntriggered: r.KeepUntriggered,
+		Setup:           r.SetupName,
+		ExtendedWindow:  r.ExtendedWindow,
+		Optics: Optics{
+			Water: optics.WaterConfig{
+				TemperatureC: r.WaterT, BandLo: r.WaterBandLo, BandHi: r.WaterBandHi,
+				AbsorptionScale: r.WaterAbs, RayleighScale: r.WaterRayleigh,
+				MieLength: r.WaterMieL, MieWavelength: r.WaterMieWl, MieExponent: r.WaterMieExp, MieG: r.WaterMieG,
+				AttenuationLength: r.WaterAttL, AttenuationWavelength: r.WaterAttWl,
+			},
+			Liner:    optics.Liner{Reflectivity: r.LinerRefl, DiffuseFraction: r.LinerDiffuse},
+			Recorded: r.OpticsRecorded,
+		},
+	}
+	if !allEqual(int(r.NDead), len(r.Dead)) {
+		return RunInfo{}, fmt.Errorf("dead array disagrees with n_dead = %d", r.NDead)
+	}
+	for _, d := range r.Dead {
+		ri.Dead = append(ri.Dead, int(d))
 	}
 	if !allEqual(int(r.NMissing), len(r.MissingFirst), len(r.MissingN)) {
 		return RunInfo{}, fmt.Errorf("missing arrays disagree with n_missing = %d", r.NMissing)

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim/optics"
 )
 
 // RunInfo describes how the events of a file were made, so that the file
@@ -63,6 +64,32 @@ type RunInfo struct {
 	// KeepUntriggered says whether events whose trigger did not fire
 	// were kept.
 	KeepUntriggered bool
+
+	// Setup is the name of the detector description (setup.Setup.Name);
+	// Dead lists the sensors out of service, by index, sorted. Empty in
+	// files of format versions 1 and 2.
+	Setup string
+	Dead  []int
+	// ExtendedWindow (ns) is the stretch after the primary trigger in
+	// which every hit was kept (Event.Extended); 0 when off and in files
+	// of format versions 1 and 2.
+	ExtendedWindow float64
+	// Optics are the water and liner settings as numbers, from which the
+	// run's optics can be rebuilt (optics.NewWater); Water and Options
+	// describe them in words.
+	Optics Optics
+}
+
+// Optics are the water and liner settings of a run.
+type Optics struct {
+	// Water is the water's configuration (optics.Water.Config), with a
+	// Mie length of +Inf stored as 0 (both switch it off).
+	Water optics.WaterConfig
+	// Liner is the liner's reflectivity and diffuse fraction.
+	Liner optics.Liner
+	// Recorded says the file holds these settings; false in files of
+	// format versions 1 and 2, which give them only in words.
+	Recorded bool
 }
 
 // Span is a range of event numbers: First .. First+N-1.
@@ -133,6 +160,37 @@ func (r *RunInfo) Validate() error {
 			return fmt.Errorf("event: RunInfo.Source.Reasons[%d] = %q must be one line", i, s)
 		}
 	}
+	if strings.ContainsAny(r.Setup, "\n\r") {
+		return fmt.Errorf("event: RunInfo.Setup = %q must be one line", r.Setup)
+	}
+	if msg := badLength(len(r.Dead)); msg != "" {
+		return fmt.Errorf("event: len(RunInfo.Dead) = %s", msg)
+	}
+	for i, d := range r.Dead {
+		if d < 0 || d > math.MaxInt32 || (i > 0 && d <= r.Dead[i-1]) {
+			return fmt.Errorf("event: RunInfo.Dead[%d] = %d: want sorted, distinct sensor indices in [0, %d]", i, d, math.MaxInt32)
+		}
+	}
+	if o := &r.Optics; o.Recorded {
+		w := &o.Water
+		for _, f := range []struct {
+			name string
+			v    float64
+		}{{"TemperatureC", w.TemperatureC}, {"BandLo", w.BandLo}, {"BandHi", w.BandHi}, {"AbsorptionScale", w.AbsorptionScale},
+			{"RayleighScale", w.RayleighScale}, {"MieLength", w.MieLength}, {"MieWavelength", w.MieWavelength},
+			{"MieExponent", w.MieExponent}, {"MieG", w.MieG}, {"AttenuationLength", w.AttenuationLength},
+			{"AttenuationWavelength", w.AttenuationWavelength}, {"Liner.Reflectivity", o.Liner.Reflectivity},
+			{"Liner.DiffuseFraction", o.Liner.DiffuseFraction}} {
+			if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+				return fmt.Errorf("event: RunInfo.Optics.%s = %v must be finite", f.name, f.v)
+			}
+		}
+	} else if r.Optics != (Optics{}) {
+		return fmt.Errorf("event: RunInfo.Optics = %+v must be zero when Recorded is false", r.Optics)
+	}
+	if !(r.ExtendedWindow >= 0) || math.IsInf(r.ExtendedWindow, 0) {
+		return fmt.Errorf("event: RunInfo.ExtendedWindow = %v must be non-negative and finite (ns)", r.ExtendedWindow)
+	}
 	if r.Trigger.Threshold > math.MaxInt32 {
 		return fmt.Errorf("event: RunInfo.Trigger.Threshold = %d does not fit the file's 32-bit column", r.Trigger.Threshold)
 	}
@@ -169,4 +227,12 @@ func (r *RunInfo) missing(n uint64) (Span, bool) {
 		}
 	}
 	return Span{}, false
+}
+
+// checkDead checks the dead sensors against a detector of nSensors.
+func (r *RunInfo) checkDead(nSensors int) error {
+	if n := len(r.Dead); n > 0 && r.Dead[n-1] >= nSensors {
+		return fmt.Errorf("event: RunInfo.Dead[%d] = %d outside the detector's %d sensors", n-1, r.Dead[n-1], nSensors)
+	}
+	return nil
 }

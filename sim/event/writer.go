@@ -75,6 +75,9 @@ func create(path string, det *geom.Detector, sensor pmt.Model, run RunInfo, chun
 	if err := run.Validate(); err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
+	if err := run.checkDead(det.NumSensors()); err != nil {
+		return nil, fmt.Errorf("event: Create %s: %w", path, err)
+	}
 
 	date, err := recordDate()
 	if err != nil {

@@ -23,8 +23,9 @@ func IsEventFile(spec string) bool { return strings.EqualFold(filepath.Ext(spec)
 // detector name (the file's base name is used) and no list of dead
 // sensors: the description has none.
 //
-// The run tree states the water and the liner as text (sim's
-// Simulator.RunInfo); they are read back exactly, since every number is
+// Files of format 3 on record the water and liner settings as numbers
+// (event.RunInfo.Optics). Older files state them only as text (sim's
+// Simulator.RunInfo of then); they are read back exactly, since every number is
 // written in its shortest form that reads back to the same float64. A run
 // tree whose text does not have that form is an error naming it, never a
 // guess.
@@ -35,13 +36,21 @@ func fromEventFile(path string) (setup.Setup, error) {
 	}
 	defer r.Close()
 	run := r.Run()
-	w, err := waterFromRun(run.Water)
-	if err != nil {
-		return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
-	}
-	liner, err := linerFromRun(run.Options)
-	if err != nil {
-		return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
+	var w *optics.Water
+	var liner optics.Liner
+	if run.Optics.Recorded {
+		// Format 3 on: the settings as numbers.
+		if w, err = optics.NewWater(run.Optics.Water); err != nil {
+			return setup.Setup{}, fmt.Errorf("-detector %s: run tree water settings: %w", path, err)
+		}
+		liner = run.Optics.Liner
+	} else {
+		if w, err = waterFromRun(run.Water); err != nil {
+			return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
+		}
+		if liner, err = linerFromRun(run.Options); err != nil {
+			return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
+		}
 	}
 	base := filepath.Base(path)
 	s := setup.Setup{
