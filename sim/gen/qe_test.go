@@ -3,6 +3,7 @@ package gen
 import (
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"sync"
 	"testing"
@@ -351,7 +352,7 @@ func TestQEDeterministic(t *testing.T) {
 				j := (i + g) % len(want)
 				rng := rand.New(rand.NewPCG(uint64(j), 77))
 				p, info, err := q.Generate(uint64(j), rng, nil)
-				if err != nil || p[0] != want[j].lep || info != want[j].info {
+				if err != nil || p[0] != want[j].lep || !reflect.DeepEqual(info, want[j].info) {
 					t.Errorf("event %d differs on goroutine %d (%v)", j, g, err)
 				}
 			}
