@@ -24,13 +24,17 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 		shards = 1
 	}
 	w := s.cfg.Water.Config()
+	water := fmt.Sprintf("T=%g C, band %g-%g nm, absorption x%g, Rayleigh x%g, Mie length %g cm at %g nm (exponent %g, g %g), attenuation length %g cm at %g nm",
+		w.TemperatureC, w.BandLo, w.BandHi, s.cfg.Water.AbsorptionScale(), w.RayleighScale,
+		w.MieLength, w.MieWavelength, w.MieExponent, w.MieG, w.AttenuationLength, w.AttenuationWavelength)
+	if s.cfg.GdMassFraction != 0 {
+		water += fmt.Sprintf(", Gd mass fraction %g", s.cfg.GdMassFraction)
+	}
 	return event.RunInfo{
 		Seed:      s.cfg.Seed,
 		Generator: g.String(),
 		Version:   Version,
-		Water: fmt.Sprintf("T=%g C, band %g-%g nm, absorption x%g, Rayleigh x%g, Mie length %g cm at %g nm (exponent %g, g %g), attenuation length %g cm at %g nm",
-			w.TemperatureC, w.BandLo, w.BandHi, s.cfg.Water.AbsorptionScale(), w.RayleighScale,
-			w.MieLength, w.MieWavelength, w.MieExponent, w.MieG, w.AttenuationLength, w.AttenuationWavelength),
+		Water:     water,
 		Options: fmt.Sprintf("liner reflectivity %g (diffuse %g), photon prescale %g, dark noise %v, em %+v, muon %+v",
 			s.cfg.Liner.Reflectivity, s.cfg.Liner.DiffuseFraction, s.prescale, !s.cfg.NoDarkNoise, s.cfg.EM, s.cfg.Muon),
 		ShardIndex:      opt.Shard,

@@ -35,7 +35,7 @@ func fromEventFile(path string) (setup.Setup, error) {
 	}
 	defer r.Close()
 	run := r.Run()
-	w, err := waterFromRun(run.Water)
+	w, gd, err := waterFromRun(run.Water)
 	if err != nil {
 		return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
 	}
@@ -52,6 +52,7 @@ func fromEventFile(path string) (setup.Setup, error) {
 		Liner:    liner,
 		Trigger:  run.Trigger,
 	}
+	s.GdMassFraction = gd
 	if err := s.Check(); err != nil {
 		return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
 	}
@@ -67,7 +68,7 @@ const num = `([-+0-9.eE]+|[-+]?Inf|NaN)`
 // waterText matches the run tree's water text.
 var waterText = regexp.MustCompile(`^T=` + num + ` C, band ` + num + `-` + num + ` nm, absorption x` + num +
 	`, Rayleigh x` + num + `, Mie length ` + num + ` cm at ` + num + ` nm \(exponent ` + num + `, g ` + num +
-	`\), attenuation length ` + num + ` cm at ` + num + ` nm$`)
+	`\), attenuation length ` + num + ` cm at ` + num + ` nm(?:, Gd mass fraction ` + num + `)?$`)
 
 // linerText matches the liner at the start of the run tree's options.
 var linerText = regexp.MustCompile(`^liner reflectivity ` + num + ` \(diffuse ` + num + `\)`)
@@ -85,14 +86,18 @@ func floats(m []string) ([]float64, error) {
 	return v, nil
 }
 
-func waterFromRun(text string) (*optics.Water, error) {
+func waterFromRun(text string) (*optics.Water, float64, error) {
 	m := waterText.FindStringSubmatch(text)
 	if m == nil {
-		return nil, fmt.Errorf("run tree water %q is not in the form this program reads", text)
+		return nil, 0, fmt.Errorf("run tree water %q is not in the form this program reads", text)
+	}
+	gd := 0.0
+	if m[len(m)-1] == "" { // no gadolinium: pure water
+		m = m[:len(m)-1]
 	}
 	v, err := floats(m)
 	if err != nil {
-		return nil, fmt.Errorf("run tree water %q: %w", text, err)
+		return nil, 0, fmt.Errorf("run tree water %q: %w", text, err)
 	}
 	c := optics.WaterConfig{
 		TemperatureC: v[0], BandLo: v[1], BandHi: v[2], AbsorptionScale: v[3], RayleighScale: v[4],
@@ -106,12 +111,15 @@ func waterFromRun(text string) (*optics.Water, error) {
 	}
 	w, err := optics.NewWater(c)
 	if err != nil {
-		return nil, fmt.Errorf("run tree water %q: %w", text, err)
+		return nil, 0, fmt.Errorf("run tree water %q: %w", text, err)
 	}
 	if c.AttenuationLength > 0 && w.AbsorptionScale() != v[3] {
-		return nil, fmt.Errorf("run tree water %q: the attenuation length gives absorption x%g here, not x%g", text, w.AbsorptionScale(), v[3])
+		return nil, 0, fmt.Errorf("run tree water %q: the attenuation length gives absorption x%g here, not x%g", text, w.AbsorptionScale(), v[3])
 	}
-	return w, nil
+	if len(v) > 11 {
+		gd = v[11]
+	}
+	return w, gd, nil
 }
 
 func linerFromRun(text string) (optics.Liner, error) {
