@@ -303,16 +303,12 @@ func neutronStudy(o options, s setup.Setup, w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		capt, err := resolution.Proportion(len(ts), len(sm.caps))
-		if err != nil {
-			return err
-		}
 		tag, err := resolution.Proportion(tagged, len(sm.caps))
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(w, "  %-10s captured %s\n", sm.name, capt.Percent())
-		fmt.Fprintf(w, "  %-10s mean capture time %.1f +- %.1f us, capture distance %.1f +- %.1f cm, signal pe %.1f +- %.1f\n",
+		fmt.Fprintf(w, "  %-10s captured %d of %d\n", sm.name, len(ts), len(sm.caps))
+		fmt.Fprintf(w, "  %-10s mean capture time %.1f +- %.1f us, capture distance %.2f +- %.2f cm, signal pe %.2f +- %.2f\n",
 			"", mt.Value, mt.Err, md.Value, md.Err, mpe.Value, mpe.Err)
 		fmt.Fprintf(w, "  %-10s tagged (truth level) %s\n", "", tag.Percent())
 		tHists, peHists, dHists, names = append(tHists, ts), append(peHists, pes), append(dHists, ds), append(names, sm.name)
@@ -320,12 +316,13 @@ func neutronStudy(o options, s setup.Setup, w io.Writer) error {
 	for _, f := range []struct {
 		file, title, x string
 		data           [][]float64
+		logY           bool
 	}{
-		{"capture-time.png", "neutron capture time (truth)", "capture time, us", tHists},
-		{"capture-pe.png", "signal photoelectrons of a capture (truth)", "photoelectrons", peHists},
-		{"capture-distance.png", "capture point from the start (truth)", "distance, cm", dHists},
+		{"capture-time.png", "neutron capture time (truth)", "capture time, us", tHists, true},
+		{"capture-pe.png", "signal photoelectrons of a capture (truth)", "photoelectrons", peHists, false},
+		{"capture-distance.png", "capture point from the start (truth)", "distance, cm", dHists, false},
 	} {
-		pl, err := overlay(f.data, names, 40, f.title, f.x)
+		pl, err := overlay(f.data, names, 40, f.title, f.x, f.logY)
 		if err != nil {
 			return err
 		}
@@ -350,8 +347,9 @@ func histogram(x []float64, bins int, title, xl, yl string) (*plot.Plot, error) 
 	return p, nil
 }
 
-// overlay draws the samples' histograms over a common range as lines.
-func overlay(data [][]float64, names []string, bins int, title, xl string) (*plot.Plot, error) {
+// overlay draws the samples' histograms over a common range as lines;
+// with logY on a logarithmic scale, empty bins left out.
+func overlay(data [][]float64, names []string, bins int, title, xl string, logY bool) (*plot.Plot, error) {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, d := range data {
 		for _, v := range d {
@@ -373,6 +371,15 @@ func overlay(data [][]float64, names []string, bins int, title, xl string) (*plo
 			i := min(int((v-lo)/width), bins-1)
 			xy[i].Y += 1 / float64(len(d))
 		}
+		if logY {
+			kept := xy[:0]
+			for _, q := range xy {
+				if q.Y > 0 {
+					kept = append(kept, q)
+				}
+			}
+			xy = kept
+		}
 		l, err := plotter.NewLine(xy)
 		if err != nil {
 			return nil, err
@@ -384,7 +391,10 @@ func overlay(data [][]float64, names []string, bins int, title, xl string) (*plo
 		p.Add(l)
 		p.Legend.Add(names[k], l)
 	}
-	p.Legend.Top = true
+	p.Legend.Top, p.Legend.Left = true, false
+	if logY {
+		p.Y.Scale, p.Y.Tick.Marker = plot.LogScale{}, plot.LogTicks{Prec: -1}
+	}
 	return p, nil
 }
 
