@@ -16,7 +16,9 @@ type Config struct {
 	// Setup is the detector description; its defaults (the water) are
 	// setup.Setup.Check's, and the simulator also requires a valid
 	// Trigger (setup.Setup.CheckTrigger). Sensors listed in Dead make
-	// neither signal nor dark hits.
+	// neither signal nor dark hits. Neutrons thermalise at the water's
+	// temperature and are captured on H, O and the Setup's
+	// GdMassFraction of gadolinium (sim/neutron).
 	setup.Setup
 	// EM and Muon are the transport settings; zero values mean
 	// em.DefaultConfig() and muon.DefaultConfig(). Their Cherenkov

@@ -12,7 +12,11 @@
 //     electrons, positrons and photons, sim/muon for muons, sim/hadron
 //     for charged and neutral pions and protons, sim/neutron for neutrons
 //     to their capture); neutrinos are not followed (fate NotFollowed) and
-//     an unknown PDG code is an error;
+//     an unknown PDG code is an error. A generator's final-state particles
+//     that no code follows (gen.Info.NotFollowed: residual nuclei, and
+//     with gen.HepMCOptions.CountUnfollowed kaons and the like) join the
+//     truth's primaries with fate NotFollowed and are counted in
+//     Progress.NotFollowed;
 //  3. every charged step above threshold emits its Cherenkov photons
 //     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
 //     each photon is traced at once to the wall (sim/photon), so no event

@@ -83,6 +83,9 @@ func (s *Simulator) waterDescription() string {
 	} else {
 		b.WriteString("; no Mie-like scattering")
 	}
+	if s.cfg.GdMassFraction != 0 {
+		fmt.Fprintf(&b, "; gadolinium mass fraction %g", s.cfg.GdMassFraction)
+	}
 	return b.String()
 }
 

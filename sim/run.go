@@ -78,9 +78,16 @@ type Progress struct {
 	// Empty counts events with nothing to track, Skipped bad events left
 	// out under SkipBad; neither is passed to the output.
 	Empty, Skipped uint64
-	Elapsed        time.Duration
-	Rate           float64       // events per second so far
-	Remaining      time.Duration // estimate at the current rate
+	// NotFollowed counts the particles of the events handled that no
+	// transport code followed: a generator file's particles listed in
+	// gen.Info.NotFollowed (residual nuclei; others with
+	// gen.HepMCOptions.CountUnfollowed) and primaries the transport
+	// passed over (neutrinos handed to it). Each is in its event's truth
+	// as a track of fate phys.NotFollowed.
+	NotFollowed uint64
+	Elapsed     time.Duration
+	Rate        float64       // events per second so far
+	Remaining   time.Duration // estimate at the current rate
 }
 
 // ShardRange returns the first event number and the number of events of
@@ -113,6 +120,9 @@ type result struct {
 	ev    *event.Event
 	err   error
 	empty string // why the event had nothing to track, if it had not
+	// notFollowed counts the event's particles no transport code
+	// followed (Progress.NotFollowed).
+	notFollowed int
 }
 
 // Run simulates the events selected by opt on Config.Workers goroutines
@@ -182,7 +192,9 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 					r.empty = emptyReason(g, num, info)
 				} else if r.ev, r.err = w.simulate(num, rng, prims); r.err == nil {
 					r.ev.Truth.Interaction = InteractionTruth(g, info)
+					addNotFollowed(&r.ev.Truth, info.NotFollowed)
 				}
+				r.notFollowed = countNotFollowed(r.ev, info)
 				results <- r
 			}
 		}()
@@ -195,13 +207,13 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 	}
 	start := time.Now()
 	lastReport := start
-	var done, kept, empty, skipped uint64
+	var done, kept, empty, skipped, notFollowed uint64
 	report := func() {
 		if opt.Progress == nil {
 			return
 		}
 		el := time.Since(start)
-		p := Progress{Done: done, Total: n, Kept: kept, Empty: empty, Skipped: skipped, Elapsed: el}
+		p := Progress{Done: done, Total: n, Kept: kept, Empty: empty, Skipped: skipped, NotFollowed: notFollowed, Elapsed: el}
 		if el > 0 {
 			p.Rate = float64(done) / el.Seconds()
 		}
@@ -239,6 +251,7 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 				break
 			}
 			done++
+			notFollowed += uint64(r.notFollowed)
 			if r.ev == nil { // empty or skipped
 				if r.empty != "" {
 					empty++

@@ -12,6 +12,7 @@ import (
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/muon"
+	"github.com/conelight/conelight/sim/neutron"
 	"github.com/conelight/conelight/sim/photon"
 	"github.com/conelight/conelight/sim/phys"
 	"github.com/conelight/conelight/sim/transport"
@@ -72,6 +73,15 @@ func New(cfg Config) (*Simulator, error) {
 	physics, err := transport.New(material.Water(), emCfg, muCfg)
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
+	}
+	// Neutrons thermalise at the water's temperature and are captured on
+	// its gadolinium too. neutron.Config reads a zero temperature as its
+	// default (20 C), so 0 C goes in as a nanokelvin above it.
+	ncfg := neutron.Config{TemperatureC: max(cfg.Water.Config().TemperatureC, 1e-9), GdMassFraction: cfg.GdMassFraction}
+	if ncfg.TemperatureC != neutron.DefaultConfig().TemperatureC || ncfg.GdMassFraction != 0 {
+		if physics, err = physics.WithNeutron(material.Water(), ncfg); err != nil {
+			return nil, fmt.Errorf("sim: %w", err)
+		}
 	}
 	tracer, err := photon.NewTracer(cfg.Detector, &cfg.Sensor, cfg.Water, photon.Config{Liner: cfg.Liner, Prescale: prescale})
 	if err != nil {

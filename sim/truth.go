@@ -3,6 +3,7 @@ package sim
 import (
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
+	"github.com/conelight/conelight/sim/phys"
 )
 
 // Generator truth in the event file.
@@ -70,4 +71,32 @@ func InteractionTruth(g gen.Generator, info gen.Info) event.Interaction {
 		in.LabPos, in.LabTime, in.HasLabPos = info.LabPos, info.LabTime, true
 	}
 	return in
+}
+
+// addNotFollowed records a generator's final-state particles that no
+// transport code follows (gen.Info.NotFollowed) in the event truth: each
+// joins the primaries, with a track of fate phys.NotFollowed and no
+// light, after the primaries that were transported.
+func addNotFollowed(t *event.Truth, ps []phys.Particle) {
+	for _, p := range ps {
+		t.Primaries = append(t.Primaries, p)
+		t.Tracks = append(t.Tracks, event.Track{PDG: p.PDG, Fate: phys.NotFollowed})
+	}
+}
+
+// countNotFollowed returns how many particles of an event no transport
+// code followed: the primaries of fate phys.NotFollowed in its truth, or
+// for an event that was not simulated (nothing to track, or bad) the
+// generator's list.
+func countNotFollowed(ev *event.Event, info gen.Info) int {
+	if ev == nil {
+		return len(info.NotFollowed)
+	}
+	n := 0
+	for _, tr := range ev.Truth.Tracks {
+		if tr.Fate == phys.NotFollowed {
+			n++
+		}
+	}
+	return n
 }

@@ -202,7 +202,7 @@ func TestBadArguments(t *testing.T) {
 		{"gen.NewGun zero direction", "Direction: direction (0.0", gunWith(electron(ten, gen.Along(r3.Vector{})), center)},
 		{"gen.NewGun NaN cone", "halfAngle = NaN", gunWith(electron(ten, gen.InCone(r3.Vector{Z: 1}, nan)), center)},
 		{"gen.NewGun unset direction", "Direction", gunWith(electron(ten, gen.DirDist{}), center)},
-		{"gen.NewGun unknown particle", "2212", gunWith(gen.GunParticle{PDG: 2212, Ekin: ten, Direction: iso}, center)},
+		{"gen.NewGun particle not followed", "does not follow nu_e", gunWith(gen.GunParticle{PDG: 12, Ekin: ten, Direction: iso}, center)},
 		{"gen.NewGun Inf time", "Time = +Inf", func() error {
 			_, err := gen.NewGun(gen.GunConfig{Particles: []gen.GunParticle{electron(ten, iso)}, Vertex: center, Time: inf})
 			return err

@@ -30,8 +30,11 @@ HepMC3 library). NuHepMC files (neutrino generators) give the event truth its
 incoming neutrino, target, outgoing nucleon, Q2, process ID and weight; the
 event is placed at its NuHepMC lab position if it has one, else where the
 file's vertices are (-vertex fiducial places each event uniformly in the
-tank's fiducial volume instead). Final-state e-, e+, mu-, mu+ and photons are
-simulated; other particles are counted.
+tank's fiducial volume instead). Final-state e-, e+, mu-, mu+, photons, pi+,
+pi-, pi0, protons and neutrons are simulated; neutrinos are counted; residual
+nuclei (too slow to make light) are recorded in the truth as not followed and
+counted. Any other final-state particle (a kaon, a hyperon) is an error naming
+its line, unless -count-unfollowed records it in the truth and counts it.
 
 Output (-out): a ROOT event file (see sim/event), written under a temporary
 name beside it and renamed when complete. An interrupted run (Ctrl-C) closes
@@ -62,12 +65,14 @@ type options struct {
 	vertex        string
 	wall          float64
 	every         time.Duration
+	unfollowed    bool
 }
 
 // summary is what a run did.
 type summary struct {
 	written                        int
 	done, total, empty, skippedBad uint64
+	notFollowed                    uint64
 }
 
 func main() {
@@ -86,8 +91,8 @@ func main() {
 		fmt.Fprintln(os.Stderr, "simfile:", err)
 		os.Exit(1)
 	}
-	fmt.Printf("wrote %d events to %s (%d of %d events done, %d empty, %d bad skipped)\n",
-		sum.written, o.out, sum.done, sum.total, sum.empty, sum.skippedBad)
+	fmt.Printf("wrote %d events to %s (%d of %d events done, %d empty, %d bad skipped, %d particles not followed)\n",
+		sum.written, o.out, sum.done, sum.total, sum.empty, sum.skippedBad, sum.notFollowed)
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "simfile: interrupted:", err)
 		os.Exit(1)
@@ -106,6 +111,7 @@ func parseArgs(args []string, stderr io.Writer) (options, error) {
 	}
 	fs.StringVar(&o.in, "in", "", "generator file to read (HepMC3 Asciiv3 or HepMC2 IO_GenEvent text); required")
 	fs.StringVar(&o.out, "out", "events.root", "ROOT event file to write")
+	fs.BoolVar(&o.unfollowed, "count-unfollowed", false, "record final-state particles the simulator cannot follow (kaons, hyperons) in the truth and count them, instead of stopping at them")
 	fs.Uint64Var(&o.seed, "seed", 1, "run seed (the same for every shard)")
 	fs.Uint64Var(&o.first, "first", 0, "index of the first event of the file to simulate (0-based)")
 	fs.Uint64Var(&o.count, "count", 0, "number of events to simulate from -first, over all shards (0: to the end of the file)")
@@ -143,7 +149,7 @@ func run(ctx context.Context, o options, stderr io.Writer) (summary, error) {
 	if err != nil {
 		return sum, err
 	}
-	var hopts gen.HepMCOptions
+	hopts := gen.HepMCOptions{CountUnfollowed: o.unfollowed}
 	if o.vertex == "fiducial" {
 		hopts.Vertex = gen.InFiducial(cfg.Detector.Tank(), o.wall)
 	}
@@ -175,9 +181,9 @@ func run(ctx context.Context, o options, stderr io.Writer) (summary, error) {
 		fmt.Fprintf(stderr, "simfile: %s: %s\n", kind, b.Reason)
 	}
 	opt.Progress = func(p sim.Progress) {
-		sum.done, sum.total, sum.empty, sum.skippedBad = p.Done, p.Total, p.Empty, p.Skipped
-		fmt.Fprintf(stderr, "simfile: %d/%d events, %d kept, %d empty, %d bad skipped, %.1f ev/s, %v left\n",
-			p.Done, p.Total, p.Kept, p.Empty, p.Skipped, p.Rate, p.Remaining.Round(time.Second))
+		sum.done, sum.total, sum.empty, sum.skippedBad, sum.notFollowed = p.Done, p.Total, p.Empty, p.Skipped, p.NotFollowed
+		fmt.Fprintf(stderr, "simfile: %d/%d events, %d kept, %d empty, %d bad skipped, %d particles not followed, %.1f ev/s, %v left\n",
+			p.Done, p.Total, p.Kept, p.Empty, p.Skipped, p.NotFollowed, p.Rate, p.Remaining.Round(time.Second))
 	}
 	sum.written, err = s.WriteRun(ctx, h, opt, o.out)
 	return sum, err

@@ -10,9 +10,10 @@
 // simulator derives from (run seed, event number), so events do not depend
 // on which worker makes them; generators are immutable and safe for
 // concurrent use. String describes a generator with its settings, for the
-// event files. The primaries are what the simulator tracks: e-, e+, mu-,
-// mu+ and gamma (nucleons and neutrinos are not tracked; a CCQE event's
-// final nucleon is kept in Info only).
+// event files. The primaries are what the simulator's transport follows
+// (Followed): e-, e+, mu-, mu+, gamma, pi+, pi-, pi0, p and n. Neutrinos
+// are not followed (they leave the tank); the quasi-elastic generator
+// keeps its final nucleon in Info only.
 //
 // # Distributions
 //
@@ -103,10 +104,17 @@
 // line's "@"), as the HepMC3 library does. Units follow the event's U line,
 // else HepMC's defaults GeV and mm; times are c t in length units.
 //
-// Primaries. Final-state (status 1) e-, e+, mu-, mu+ and photons become
-// primaries, in the order of the file; other final-state particles are
-// counted in Info.Skipped (neutrinos also in Info.SkippedNeutrinos). The
-// kinetic energy comes from |p| and the PDG mass.
+// Primaries. Final-state (status 1) particles the transport follows
+// become primaries, in the order of the file; the kinetic energy comes
+// from |p| and the PDG mass. Final-state neutrinos are counted
+// (Info.SkippedNeutrinos). Nothing else is passed over in silence: a
+// nucleus (10LZZZAAAI) slower than the Cherenkov threshold of an index of
+// 1.40 (above water's anywhere in the sensors' band), which could make no
+// light, is listed in Info.NotFollowed for the event truth; any other
+// particle (kaons, hyperons, fast nuclei, unknown codes) is an error
+// naming its line, unless HepMCOptions.CountUnfollowed lists it in
+// Info.NotFollowed too. Info.Skipped counts every final-state particle
+// not passed on.
 //
 // NuHepMC (Gardiner, Isaacson, Pickering, arXiv:2310.13211, versions 1.0,
 // 0.9 and earlier). The incoming neutrino is the status-4 neutrino; the

@@ -73,8 +73,10 @@ func ExampleQE() {
 
 func ExampleOpenHepMC() {
 	// A NuHepMC file written by the HepMC3 library (GeV, mm): the primaries
-	// are the final-state particles the simulator tracks; the neutrino
-	// truth comes from the NuHepMC conventions.
+	// are the final-state particles the simulator follows (here the muon
+	// and the proton); the residual nucleus, far below its Cherenkov
+	// threshold, is listed as not followed; the neutrino truth comes from
+	// the NuHepMC conventions.
 	h, err := gen.OpenHepMC("../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3", gen.HepMCOptions{})
 	if err != nil {
 		fmt.Println(err)
@@ -92,10 +94,15 @@ func ExampleOpenHepMC() {
 	for _, p := range ps {
 		fmt.Printf("primary %d: Ekin %.1f MeV at (%.1f, %.1f, %.1f) cm\n", p.PDG, p.Ekin, p.Pos.X, p.Pos.Y, p.Pos.Z)
 	}
-	fmt.Printf("nucleon %d: Ekin %.1f MeV; %d particles not tracked\n", info.FinalNucleon.PDG, info.FinalNucleon.Ekin, info.Skipped)
+	fmt.Printf("nucleon %d: Ekin %.1f MeV\n", info.FinalNucleon.PDG, info.FinalNucleon.Ekin)
+	for _, p := range info.NotFollowed {
+		fmt.Printf("not followed %d: Ekin %.2f MeV\n", p.PDG, p.Ekin)
+	}
 	// Output:
 	// HepMC3 file ../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3 (5 events)
 	// event 101: process 200, weight 1.25, nu 14 of 800 MeV on 1000080160, Q2 81349 MeV^2
 	// primary 13: Ekin 452.2 MeV at (10.0, -5.0, 2.5) cm
-	// nucleon 2212: Ekin 39.2 MeV; 2 particles not tracked
+	// primary 2212: Ekin 39.2 MeV at (10.0, -5.0, 2.5) cm
+	// nucleon 2212: Ekin 39.2 MeV
+	// not followed 1000080150: Ekin 0.54 MeV
 }

@@ -74,9 +74,8 @@ type Info struct {
 	// Q2 = -(k_nu - k_lepton)^2, MeV^2.
 	Q2 float64
 	// FinalNucleon is the outgoing nucleon (for a file, the final-state
-	// proton or neutron of largest momentum). The simulator does not
-	// track nucleons, so it is kept here only and not among the
-	// primaries.
+	// proton or neutron of largest momentum, which is also among the
+	// primaries; the quasi-elastic generator keeps it here only).
 	FinalNucleon phys.Particle
 
 	// Event-file truth (HepMC2, HepMC3, NuHepMC).
@@ -97,10 +96,19 @@ type Info struct {
 	LabPos    r3.Vector
 	LabTime   float64
 	HasLabPos bool
-	// Skipped counts the final-state particles not passed on because the
-	// simulator does not track them (neutrinos, hadrons, nuclei, unknown
-	// codes); SkippedNeutrinos is how many of them were neutrinos.
+	// Skipped counts the final-state particles not passed on as
+	// primaries: neutrinos (SkippedNeutrinos of them), which leave the
+	// tank without interacting, and the particles in NotFollowed.
 	Skipped, SkippedNeutrinos int
+	// NotFollowed lists the final-state particles of a file that no
+	// transport code follows, other than neutrinos: nuclei below their
+	// Cherenkov threshold (which would make no light) always, any other
+	// (kaons, hyperons, nuclei above threshold, codes the library does
+	// not know) only with HepMCOptions.CountUnfollowed, since without it
+	// they are an error. Ekin is the file's energy minus its mass. The
+	// simulator records them in the event truth with fate
+	// phys.NotFollowed.
+	NotFollowed []phys.Particle
 }
 
 // EventWeight returns Weight, or 1 when the generator gave none.
@@ -111,12 +119,19 @@ func (i *Info) EventWeight() float64 {
 	return i.Weight
 }
 
-// tracked reports whether the event simulator transports particles of this
-// PDG code: charged leptons e, mu and photons.
-func tracked(pdg int) bool {
+// Followed reports whether the event simulator's transport (sim/transport)
+// follows particles of this PDG code, so that a generator may pass them on
+// as primaries: e-, e+, mu-, mu+, gamma, pi+, pi-, pi0, p and n. Neutrinos
+// are known to the library but not followed (they leave the tank without
+// interacting).
+func Followed(pdg int) bool {
 	switch pdg {
-	case phys.Electron, phys.Positron, phys.MuonMinus, phys.MuonPlus, phys.Gamma:
+	case phys.Electron, phys.Positron, phys.MuonMinus, phys.MuonPlus, phys.Gamma,
+		phys.PionPlusCode, phys.PionMinusCode, phys.NeutralPionCode, phys.ProtonCode, phys.NeutronCode:
 		return true
 	}
 	return false
 }
+
+// followedNames lists the particles Followed accepts, for error messages.
+const followedNames = "e-, e+, mu-, mu+, gamma, pi+, pi-, pi0, p, n"

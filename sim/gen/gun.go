@@ -10,7 +10,7 @@ import (
 
 // GunParticle is one primary of a particle gun.
 type GunParticle struct {
-	PDG       int      // e-, e+, mu-, mu+ or gamma
+	PDG       int      // any code Followed accepts: e-, e+, mu-, mu+, gamma, pi+, pi-, pi0, p, n
 	Ekin      Spectrum // kinetic energy, MeV
 	Direction DirDist
 }
@@ -31,8 +31,8 @@ type Gun struct {
 }
 
 // NewGun validates cfg and returns the gun. Errors name the field and the
-// value, e.g. `gen: GunConfig.Particles[1].PDG = 2212: the simulator does
-// not track p`.
+// value, e.g. `gen: GunConfig.Particles[1].PDG = 14: the simulator does
+// not follow nu_mu`.
 func NewGun(cfg GunConfig) (*Gun, error) {
 	if len(cfg.Particles) == 0 {
 		return nil, fmt.Errorf("gen: GunConfig.Particles is empty")
@@ -67,8 +67,8 @@ func checkTracked(pdg int) error {
 	if err != nil {
 		return err
 	}
-	if !tracked(pdg) {
-		return fmt.Errorf("the simulator does not track %s (only e-, e+, mu-, mu+, gamma)", sp.Name)
+	if !Followed(pdg) {
+		return fmt.Errorf("the simulator does not follow %s (only %s)", sp.Name, followedNames)
 	}
 	return nil
 }

@@ -3,6 +3,7 @@ package gen
 import (
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -183,7 +184,7 @@ func TestGun(t *testing.T) {
 	}
 	cfg.Particles[0].PDG = phys.Electron // the gun keeps its own copy
 	a, info, err := g.Generate(0, rand.New(rand.NewPCG(1, 2)), nil)
-	if err != nil || len(a) != 2 || info != (Info{}) {
+	if err != nil || len(a) != 2 || !reflect.DeepEqual(info, Info{}) {
 		t.Fatalf("%v %v %+v", a, err, info)
 	}
 	if a[0].PDG != phys.MuonMinus || a[0].Dir != (r3.Vector{Z: 1}) || a[0].Pos != a[1].Pos || a[0].Time != 5 || a[1].Ekin != 10 {
@@ -202,7 +203,7 @@ func TestGun(t *testing.T) {
 		want string
 	}{
 		{func(c *GunConfig) { c.Particles = nil }, "GunConfig.Particles is empty"},
-		{func(c *GunConfig) { c.Particles[1].PDG = 2212 }, "GunConfig.Particles[1].PDG = 2212"},
+		{func(c *GunConfig) { c.Particles[1].PDG = phys.MuonNeu }, "GunConfig.Particles[1].PDG = 14: the simulator does not follow nu_mu"},
 		{func(c *GunConfig) { c.Particles[0].PDG = 12345 }, "GunConfig.Particles[0].PDG = 12345: phys: unknown PDG code"},
 		{func(c *GunConfig) { c.Particles[0].Ekin = UniformEnergy(9, 3) }, "GunConfig.Particles[0].Ekin: UniformEnergy(9, 3)"},
 		{func(c *GunConfig) { c.Particles[1].Direction = DirDist{} }, "GunConfig.Particles[1].Direction: not set"},

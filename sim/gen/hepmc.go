@@ -24,6 +24,14 @@ type HepMCOptions struct {
 	// Time is added to the file's vertex times (ns); with Vertex set, the
 	// primary vertex is at Time.
 	Time float64
+	// CountUnfollowed lets events through that hold final-state
+	// particles no transport code follows (kaons, hyperons, unknown
+	// codes, nuclei above their Cherenkov threshold): they are listed in
+	// Info.NotFollowed and recorded in the event truth instead. Without
+	// it such an event is an error naming the particle and its line.
+	// Neutrinos and nuclei below their Cherenkov threshold are never an
+	// error (they make no light).
+	CountUnfollowed bool
 }
 
 // HepMC reads primaries from a HepMC event file: HepMC3's own text format

@@ -149,6 +149,7 @@ func checkLibEvent(t *testing.T, where string, want libEv, ps []phys.Particle, i
 	var prims []libParticle
 	var nu, target, nucleon, lepton *libParticle
 	skipped, skippedNu := 0, 0
+	var nuclei []int // final-state nuclei, in file order
 	for k := range want.Particles {
 		p := &want.Particles[k]
 		switch {
@@ -156,12 +157,14 @@ func checkLibEvent(t *testing.T, where string, want libEv, ps []phys.Particle, i
 			nu = p
 		case p.Status == 11:
 			target = p
-		case p.Status == 1 && tracked(p.PDG):
+		case p.Status == 1 && Followed(p.PDG):
 			prims = append(prims, *p)
 		case p.Status == 1:
 			skipped++
 			if isNeutrino(p.PDG) {
 				skippedNu++
+			} else {
+				nuclei = append(nuclei, p.PDG)
 			}
 		}
 		if p.Status == 1 && (p.PDG == 2212 || p.PDG == 2112) &&
@@ -194,6 +197,17 @@ func checkLibEvent(t *testing.T, where string, want libEv, ps []phys.Particle, i
 	if info.SourceEvent != want.Number || info.Process != want.Process || info.Skipped != skipped || info.SkippedNeutrinos != skippedNu {
 		t.Errorf("%s: number %d, process %d, skipped %d (%d nu); want %d, %d, %d (%d)", where,
 			info.SourceEvent, info.Process, info.Skipped, info.SkippedNeutrinos, want.Number, want.Process, skipped, skippedNu)
+	}
+	// The residual nuclei (well below their Cherenkov threshold) are not
+	// followed and not an error: they are listed for the truth.
+	if len(info.NotFollowed) != len(nuclei) {
+		t.Errorf("%s: not followed %+v, want the nuclei %v", where, info.NotFollowed, nuclei)
+	} else {
+		for k, pdg := range nuclei {
+			if got := info.NotFollowed[k]; got.PDG != pdg || !(got.Ekin >= 0 && got.Ekin < 5) {
+				t.Errorf("%s: not followed %d: %+v, want PDG %d with a few MeV at most", where, k, got, pdg)
+			}
+		}
 	}
 	if info.HasWeight != weights || weights && !closeTo(info.Weight, want.Weight, tol) {
 		t.Errorf("%s: weight %v (given %v), want %v (given %v)", where, info.Weight, info.HasWeight, want.Weight, weights)

@@ -2,6 +2,7 @@ package gen
 
 import (
 	"fmt"
+	"math"
 	"math/rand/v2"
 
 	"github.com/golang/geo/r3"
@@ -227,20 +228,77 @@ func (h *HepMC) convert(e *hepEvent, listing *hepmcListing, rng *rand.Rand, dst 
 		if p.status != statusFinal {
 			continue
 		}
-		if !tracked(p.pdg) {
-			info.Skipped++
-			if isNeutrino(p.pdg) {
-				info.SkippedNeutrinos++
+		switch {
+		case Followed(p.pdg):
+			out, err := h.particle(e, pl, i, rng, shift, tShift)
+			if err != nil {
+				return dst, info, err
 			}
+			dst = append(dst, out)
 			continue
+		case isNeutrino(p.pdg):
+			info.SkippedNeutrinos++
+		case !h.opts.CountUnfollowed && !(isNucleus(p.pdg) && belowCherenkov(p)):
+			return dst, info, &lineError{line: p.line, msg: fmt.Sprintf(
+				"P line: final-state particle of PDG code %d: the simulator follows only %s, neutrinos and nuclei below their Cherenkov threshold "+
+					"(HepMCOptions.CountUnfollowed records such particles in the truth instead)", p.pdg, followedNames)}
+		default:
+			out, err := h.unfollowed(e, pl, i, shift, tShift)
+			if err != nil {
+				return dst, info, err
+			}
+			info.NotFollowed = append(info.NotFollowed, out)
 		}
-		out, err := h.particle(e, pl, i, rng, shift, tShift)
-		if err != nil {
-			return dst, info, err
-		}
-		dst = append(dst, out)
+		info.Skipped++
 	}
 	return dst, info, nil
+}
+
+// unfollowedIndex is the refractive index below whose Cherenkov threshold
+// a nucleus counts as invisible: above the index of water anywhere in the
+// band sensors see (1.34-1.37 between 280 and 660 nm at 0-30 C, from
+// memory), so that no nucleus that could shine is passed over.
+const unfollowedIndex = 1.40
+
+// isNucleus reports whether pdg is a nucleus code of the PDG numbering
+// (10LZZZAAAI) holding more than one nucleon.
+func isNucleus(pdg int) bool {
+	a := abs(pdg)
+	return a >= 1000000000 && a <= 1099999999 && a/10%1000 > 1
+}
+
+// belowCherenkov reports whether a particle's speed |p|/E (from the file)
+// is below the Cherenkov threshold 1/unfollowedIndex.
+func belowCherenkov(p *hepPart) bool {
+	return p.p[3] > 0 && math.Sqrt(p3norm2(p)) < p.p[3]/unfollowedIndex
+}
+
+// unfollowed converts a final-state particle no transport code follows
+// into a phys.Particle for the truth: its position and time, direction
+// of flight and kinetic energy E - m from the file (any PDG code).
+func (h *HepMC) unfollowed(e *hepEvent, pl *hepPlace, i int, shift r3.Vector, tShift float64) (phys.Particle, error) {
+	p := &e.parts[i]
+	x, err := pl.particlePos(i)
+	if err != nil {
+		return phys.Particle{}, err
+	}
+	s := e.momScale
+	mom := r3.Vector{X: p.p[0] * s, Y: p.p[1] * s, Z: p.p[2] * s}
+	out := phys.Particle{
+		PDG:  p.pdg,
+		Pos:  r3.Vector{X: x[0] * e.lenScale, Y: x[1] * e.lenScale, Z: x[2] * e.lenScale}.Add(shift),
+		Time: x[3]*e.lenScale/phys.SpeedOfLight + tShift,
+		Ekin: math.Max(0, (p.p[3]-p.m)*s),
+	}
+	if pm := mom.Norm(); pm > 0 {
+		out.Dir = mom.Mul(1 / pm)
+	} else {
+		out.Dir = r3.Vector{Z: 1} // at rest: any unit vector
+	}
+	if !finiteVector(out.Pos) || !isFinite(out.Time) || !isFinite(out.Ekin) || !finiteVector(out.Dir) {
+		return phys.Particle{}, &lineError{line: p.line, msg: fmt.Sprintf("P line: particle of PDG code %d at %v cm, t = %g ns, Ekin %g MeV is not finite", p.pdg, out.Pos, out.Time, out.Ekin)}
+	}
+	return out, nil
 }
 
 // particle converts particle i into a phys.Particle (MeV, cm, ns), with

@@ -186,34 +186,19 @@ func (q *QE) prepareBound() error {
 	return nil
 }
 
-// fourVec is an energy-momentum four-vector (MeV).
-type fourVec struct {
-	e float64
-	p r3.Vector
-}
-
-func (a fourVec) add(b fourVec) fourVec { return fourVec{a.e + b.e, a.p.Add(b.p)} }
-func (a fourVec) m2() float64           { return a.e*a.e - a.p.Norm2() }
-
-// boost returns v, given in a frame that moves with velocity beta (units
-// of c) and Lorentz factor gamma, in the frame where it moves.
-func boost(v fourVec, beta r3.Vector, gamma float64) fourVec {
-	bp := beta.Dot(v.p)
-	return fourVec{
-		e: gamma * (v.e + bp),
-		p: v.p.Add(beta.Mul(gamma*gamma/(gamma+1)*bp + gamma*v.e)),
-	}
-}
+// mass2 returns the invariant mass squared E^2 - p^2 (MeV^2), negative
+// for an off-shell bound nucleon far enough below its mass shell.
+func mass2(a phys.FourMomentum) float64 { return a.E*a.E - a.P.Norm2() }
 
 // initial returns the four-momentum of the struck nucleon: at rest when
 // free, else with Fermi momentum p and the binding energy taken off its
 // on-shell energy.
-func (q *QE) initial(free bool, p r3.Vector) fourVec {
+func (q *QE) initial(free bool, p r3.Vector) phys.FourMomentum {
 	mi := q.ch.model.mi
 	if free {
-		return fourVec{e: mi}
+		return phys.FourMomentum{E: mi}
 	}
-	return fourVec{e: math.Sqrt(mi*mi+p.Norm2()) - q.gas.BindingEnergy, p: p}
+	return phys.FourMomentum{E: math.Sqrt(mi*mi+p.Norm2()) - q.gas.BindingEnergy, P: p}
 }
 
 // rate returns the proposal weight of a neutrino of energy e on the
@@ -222,16 +207,16 @@ func (q *QE) initial(free bool, p r3.Vector) fourVec {
 // d sigma/dQ2 at the neutrino energy in the nucleon's rest frame, k.P/M_i,
 // times the width of the Q2 range (Q2 is linear in cos theta*, which is
 // proposed uniformly). It also returns Q2 and the CM kinematics.
-func (q *QE) rate(e float64, nuc fourVec, cosCM float64) (w, q2, kcm, el, pl float64) {
-	kp := e * (nuc.e - q.beam.Dot(nuc.p)) // k.P
-	pi2 := nuc.m2()
+func (q *QE) rate(e float64, nuc phys.FourMomentum, cosCM float64) (w, q2, kcm, el, pl float64) {
+	kp := e * (nuc.E - q.beam.Dot(nuc.P)) // k.P
+	pi2 := mass2(nuc)
 	kcm, el, pl, ok := q.ch.cmKinematics(pi2+2*kp, pi2)
 	if !ok {
 		return 0, 0, 0, 0, 0
 	}
 	ml := q.ch.model.lepMass
 	q2 = 2*kcm*(el-pl*cosCM) - ml*ml
-	flux := kp / (e * nuc.e)
+	flux := kp / (e * nuc.E)
 	w = flux * q.ch.model.dSigma(kp/q.ch.model.mi, q2) * 4 * kcm * pl
 	return w, q2, kcm, el, pl
 }
@@ -241,7 +226,7 @@ func (q *QE) rate(e float64, nuc fourVec, cosCM float64) (w, q2, kcm, el, pl flo
 // and cos theta*, times a safety factor. It is 0 below threshold.
 func (q *QE) bound(e float64) float64 {
 	const nCos = 48
-	maxOver := func(nuc fourVec) float64 {
+	maxOver := func(nuc phys.FourMomentum) float64 {
 		m := 0.0
 		for i := 0; i <= nCos; i++ {
 			w, _, _, _, _ := q.rate(e, nuc, -1+2*float64(i)/nCos)
@@ -306,15 +291,15 @@ func (q *QE) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phy
 			continue
 		}
 		// Final state: in the centre-of-mass frame, then boosted to the lab.
-		k := fourVec{e: e, p: q.beam.Mul(e)}
-		tot := k.add(nuc)
-		wInv := math.Sqrt(tot.m2())
-		beta, gamma := tot.p.Mul(1/tot.e), tot.e/wInv
-		kStar := boost(k, beta.Mul(-1), gamma)
-		dir := phys.Deflect(kStar.p.Mul(1/kcm), cosCM, 2*math.Pi*rng.Float64())
-		lep := boost(fourVec{e: el, p: dir.Mul(pl)}, beta, gamma)
-		fin := boost(fourVec{e: wInv - el, p: dir.Mul(-pl)}, beta, gamma)
-		pFinal := fin.p.Norm()
+		k := phys.FourMomentum{E: e, P: q.beam.Mul(e)}
+		tot := k.Add(nuc)
+		wInv := math.Sqrt(mass2(tot))
+		beta := tot.Velocity()
+		kStar := k.Boost(beta.Mul(-1))
+		dir := phys.Deflect(kStar.P.Mul(1/kcm), cosCM, 2*math.Pi*rng.Float64())
+		lep := phys.FourMomentum{E: el, P: dir.Mul(pl)}.Boost(beta)
+		fin := phys.FourMomentum{E: wInv - el, P: dir.Mul(-pl)}.Boost(beta)
+		pFinal := fin.P.Norm()
 		if !free && q.pauli && pFinal <= q.gas.FermiMomentum {
 			continue
 		}
@@ -323,14 +308,14 @@ func (q *QE) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phy
 			Target: Oxygen16Code, StruckNucleon: q.ch.initial, FermiMomentum: pF,
 			BindingEnergy: q.gas.BindingEnergy, Q2: q2,
 			FinalNucleon: phys.Particle{PDG: q.ch.final, Pos: vtx, Time: q.time,
-				Dir: fin.p.Mul(1 / pFinal), Ekin: phys.KineticFromMomentum(pFinal, q.ch.model.mf)},
+				Dir: fin.P.Mul(1 / pFinal), Ekin: phys.KineticFromMomentum(pFinal, q.ch.model.mf)},
 		}
 		if free {
 			info.Target, info.BindingEnergy = q.ch.initial, 0
 		}
-		pLep := lep.p.Norm()
+		pLep := lep.P.Norm()
 		dst = append(dst, phys.Particle{PDG: q.ch.lepton, Pos: vtx, Time: q.time,
-			Dir: lep.p.Mul(1 / pLep), Ekin: phys.KineticFromMomentum(pLep, q.ch.model.lepMass)})
+			Dir: lep.P.Mul(1 / pLep), Ekin: phys.KineticFromMomentum(pLep, q.ch.model.lepMass)})
 		return dst, info, nil
 	}
 	return dst, Info{}, fmt.Errorf("gen: %s at %g MeV on %v: no event accepted in %d proposals", q.ch.neutrinoName, e, q.target, qeMaxTrials)

@@ -3,6 +3,7 @@ package gen
 import (
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"sync"
 	"testing"
@@ -31,8 +32,8 @@ func mustQE(t *testing.T, cfg QEConfig) *QE {
 // qeEvent is one generated event with its lepton four-momentum.
 type qeEvent struct {
 	lep  phys.Particle
-	lepP fourVec
-	nucP fourVec
+	lepP phys.FourMomentum
+	nucP phys.FourMomentum
 	info Info
 }
 
@@ -57,8 +58,8 @@ func generateQE(t *testing.T, q *QE, n int, seed uint64) []qeEvent {
 		fsp, _ := phys.Lookup(fn.PDG)
 		out = append(out, qeEvent{
 			lep:  l,
-			lepP: fourVec{l.Ekin + sp.Mass, l.Dir.Mul(phys.Momentum(l.Ekin, sp.Mass))},
-			nucP: fourVec{fn.Ekin + fsp.Mass, fn.Dir.Mul(phys.Momentum(fn.Ekin, fsp.Mass))},
+			lepP: phys.FourMomentum{E: l.Ekin + sp.Mass, P: l.Dir.Mul(phys.Momentum(l.Ekin, sp.Mass))},
+			nucP: phys.FourMomentum{E: fn.Ekin + fsp.Mass, P: fn.Dir.Mul(phys.Momentum(fn.Ekin, fsp.Mass))},
 			info: info,
 		})
 	}
@@ -95,15 +96,15 @@ func TestQEFreeKinematics(t *testing.T) {
 				t.Fatalf("free event with info %+v", in)
 			}
 			e := in.NeutrinoEtot
-			tot := fourVec{e + q.ch.model.mi, q.beam.Mul(e)}
-			fin := ev.lepP.add(ev.nucP)
-			if d := fin.add(fourVec{-tot.e, tot.p.Mul(-1)}); math.Abs(d.e) > 1e-9*tot.e || d.p.Norm() > 1e-9*tot.e {
+			tot := phys.FourMomentum{E: e + q.ch.model.mi, P: q.beam.Mul(e)}
+			fin := ev.lepP.Add(ev.nucP)
+			if d := fin.Add(phys.FourMomentum{E: -tot.E, P: tot.P.Mul(-1)}); math.Abs(d.E) > 1e-9*tot.E || d.P.Norm() > 1e-9*tot.E {
 				t.Fatalf("%d at %g MeV: 4-momentum not conserved by %v", c.nu, e, d)
 			}
 			ml := q.ch.model.lepMass
 			cos := ev.lep.Dir.Dot(q.beam)
-			q2 := 2*e*(ev.lepP.e-ev.lepP.p.Norm()*cos) - ml*ml
-			if math.Abs(q2-in.Q2) > 1e-9*2*e*ev.lepP.e {
+			q2 := 2*e*(ev.lepP.E-ev.lepP.P.Norm()*cos) - ml*ml
+			if math.Abs(q2-in.Q2) > 1e-9*2*e*ev.lepP.E {
 				t.Fatalf("Q2 from the lepton %g, sampled %g", q2, in.Q2)
 			}
 			eqe, err := phys.QuasiElasticEnergyOf(ev.lep.PDG, ev.lep.Ekin, cos, 0)
@@ -197,12 +198,12 @@ func TestQEOxygen(t *testing.T) {
 			if pF.Norm() > kF {
 				t.Fatalf("Fermi momentum %g above k_F", pF.Norm())
 			}
-			if pf := ev.nucP.p.Norm(); pf <= kF {
+			if pf := ev.nucP.P.Norm(); pf <= kF {
 				t.Fatalf("final nucleon %g MeV/c not Pauli-blocked", pf)
 			}
-			tot := fourVec{c.e + math.Sqrt(mi*mi+pF.Norm2()) - eb, q.beam.Mul(c.e).Add(pF)}
-			d := ev.lepP.add(ev.nucP).add(fourVec{-tot.e, tot.p.Mul(-1)})
-			if math.Abs(d.e) > 1e-9*tot.e || d.p.Norm() > 1e-9*tot.e {
+			tot := phys.FourMomentum{E: c.e + math.Sqrt(mi*mi+pF.Norm2()) - eb, P: q.beam.Mul(c.e).Add(pF)}
+			d := ev.lepP.Add(ev.nucP).Add(phys.FourMomentum{E: -tot.E, P: tot.P.Mul(-1)})
+			if math.Abs(d.E) > 1e-9*tot.E || d.P.Norm() > 1e-9*tot.E {
 				t.Fatalf("4-momentum not conserved by %v", d)
 			}
 			eqe, err := phys.QuasiElasticEnergyOf(ev.lep.PDG, ev.lep.Ekin, ev.lep.Dir.Dot(q.beam), eb)
@@ -247,7 +248,7 @@ func TestPauliBlocking(t *testing.T) {
 		if low {
 			lowAll++
 		}
-		if ev.nucP.p.Norm() > q.gas.FermiMomentum {
+		if ev.nucP.P.Norm() > q.gas.FermiMomentum {
 			kept++
 			if low {
 				lowKept++
@@ -351,7 +352,7 @@ func TestQEDeterministic(t *testing.T) {
 				j := (i + g) % len(want)
 				rng := rand.New(rand.NewPCG(uint64(j), 77))
 				p, info, err := q.Generate(uint64(j), rng, nil)
-				if err != nil || p[0] != want[j].lep || info != want[j].info {
+				if err != nil || p[0] != want[j].lep || !reflect.DeepEqual(info, want[j].info) {
 					t.Errorf("event %d differs on goroutine %d (%v)", j, g, err)
 				}
 			}

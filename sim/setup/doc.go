@@ -47,7 +47,7 @@
 //	[water]    temperature_c, band_lo_nm, band_hi_nm, absorption_scale,
 //	           rayleigh_scale, mie_length_cm, mie_wavelength_nm,
 //	           mie_exponent, mie_g, attenuation_length_cm,
-//	           attenuation_wavelength_nm
+//	           attenuation_wavelength_nm, gd_mass_fraction
 //	[liner]    reflectivity, diffuse_fraction
 //	[trigger]  hits, window_ns, pre_trigger_ns, post_trigger_ns
 //

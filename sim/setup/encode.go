@@ -140,6 +140,9 @@ func encode(w io.Writer, s Setup, csv string) error {
 			e.float(f.key, f.v)
 		}
 	}
+	if s.GdMassFraction != 0 {
+		e.float("water.gd_mass_fraction", s.GdMassFraction)
+	}
 
 	dl := optics.DefaultLiner()
 	e.lazyTable("liner")

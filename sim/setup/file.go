@@ -324,6 +324,7 @@ func (p *parser) build(raw *rawFile, opt options) Setup {
 	m, sensorOK := p.sensor(&raw.Sensor)
 	s.Sensor = m
 	s.Water = p.water(&raw.Water)
+	s.GdMassFraction = p.num("water.gd_mass_fraction", raw.Water.GdMassFraction, 0, interval{lo: 0, hi: MaxGdMassFraction})
 	s.Liner = optics.DefaultLiner()
 	s.Liner.Reflectivity = p.num("liner.reflectivity", raw.Liner.Reflectivity, s.Liner.Reflectivity, fraction())
 	s.Liner.DiffuseFraction = p.num("liner.diffuse_fraction", raw.Liner.DiffuseFraction, s.Liner.DiffuseFraction, fraction())

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -29,6 +30,8 @@ func equalSetup(a, b Setup) string {
 		return fmt.Sprintf("Water %+v vs %+v", a.Water.Config(), b.Water.Config())
 	case a.Water.AbsorptionScale() != b.Water.AbsorptionScale():
 		return fmt.Sprintf("Water absorption scale %v vs %v", a.Water.AbsorptionScale(), b.Water.AbsorptionScale())
+	case a.GdMassFraction != b.GdMassFraction:
+		return fmt.Sprintf("GdMassFraction %v vs %v", a.GdMassFraction, b.GdMassFraction)
 	case a.Liner != b.Liner:
 		return fmt.Sprintf("Liner %+v vs %+v", a.Liner, b.Liner)
 	case !reflect.DeepEqual(a.Dead, b.Dead):
@@ -125,6 +128,7 @@ func variants(t *testing.T) []Setup {
 		out = append(out, s)
 	}
 	add("demo-as-is", func(*Setup) {})
+	add("gadolinium", func(s *Setup) { s.GdMassFraction = 0.001 })
 	add("edited sensor", func(s *Setup) {
 		s.Sensor.TTS = 1.0
 		s.Sensor.DarkRate = 2500
@@ -434,6 +438,8 @@ func TestBadFiles(t *testing.T) {
 		{"saturation below threshold", "tts_sigma_ns = 1.1", "saturation_pe = 0.1", "sensor.saturation_pe", 9, []string{"below threshold_pe"}},
 		{"attenuation without wavelength", "temperature_c = 15", "attenuation_length_cm = 5000", "water.attenuation_wavelength_nm", 13, []string{"missing", "[200, 700] nm"}},
 		{"attenuation below scattering", "temperature_c = 15", "attenuation_length_cm = 1e9\nattenuation_wavelength_nm = 400", "water.attenuation_length_cm", 14, []string{"scattering"}},
+		{"gadolinium above range", "temperature_c = 15", "temperature_c = 15\ngd_mass_fraction = 0.02", "water.gd_mass_fraction", 15, []string{"0.02", "[0, 0.01]"}},
+		{"gadolinium negative", "temperature_c = 15", "temperature_c = 15\ngd_mass_fraction = -1e-3", "water.gd_mass_fraction", 15, []string{"-0.001", "[0, 0.01]"}},
 		{"syntax", "hits = 12", "hits = = 12", "trigger.hits", 18, nil},
 		{"duplicate key", "hits = 12", "hits = 12\nhits = 13", "trigger.hits", 19, nil},
 		{"no preset, not every key", `preset = "Medium"`, `cathode_diameter_cm = 20`, "sensor.preset", 7, []string{"missing", "qe_fraction"}},
@@ -470,4 +476,29 @@ func TestBadFileAllErrors(t *testing.T) {
 	_, err := Parse([]byte(text), "bad.toml")
 	wantError(t, err, "liner.reflectivity", 16)
 	wantError(t, err, "sensor.tts_sigma_ns", 9)
+}
+
+// The gadolinium fraction: the example file's 0.2% is read; Check refuses
+// a Setup outside [0, MaxGdMassFraction] naming the field.
+func TestGdMassFraction(t *testing.T) {
+	s, err := Load(examplePath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.GdMassFraction != 0.002 {
+		t.Errorf("example: GdMassFraction %v, want 0.002", s.GdMassFraction)
+	}
+	d, err := Demo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.GdMassFraction != 0 {
+		t.Errorf("demo: GdMassFraction %v, want 0 (pure water)", d.GdMassFraction)
+	}
+	for _, v := range []float64{-1e-4, 0.0101, math.NaN()} {
+		d.GdMassFraction = v
+		if err := d.Check(); err == nil || !strings.Contains(err.Error(), "Setup.GdMassFraction") {
+			t.Errorf("GdMassFraction %v: error %v", v, err)
+		}
+	}
 }

@@ -57,6 +57,7 @@ type rawWater struct {
 	MieG                  *float64 `toml:"mie_g"`
 	AttenuationLength     *float64 `toml:"attenuation_length_cm"`
 	AttenuationWavelength *float64 `toml:"attenuation_wavelength_nm"`
+	GdMassFraction        *float64 `toml:"gd_mass_fraction"`
 }
 
 type rawLiner struct {
@@ -123,6 +124,7 @@ func schema() []keyDoc {
 		{"water.mie_g", "Henyey-Greenstein mean cosine of Mie scattering, in (-1, 1) (default 0.9)"},
 		{"water.attenuation_length_cm", "total attenuation length wanted at attenuation_wavelength_nm, cm: sets the absorption scale that gives it; 0 means use absorption_scale (default 0)"},
 		{"water.attenuation_wavelength_nm", "wavelength of attenuation_length_cm, nm, in [200, 700] (required with attenuation_length_cm)"},
+		{"water.gd_mass_fraction", "mass fraction of gadolinium dissolved in the water (0.001 for 0.1%), in [0, 0.01], for neutron captures; the optics stay those above (default 0)"},
 
 		{"liner.reflectivity", "probability that a photon reaching the wall between the sensors is reflected, in [0, 1] (default 0.03)"},
 		{"liner.diffuse_fraction", "fraction of the reflections that are diffuse (Lambertian), the rest specular, in [0, 1] (default 0.5)"},

@@ -24,6 +24,11 @@ type Setup struct {
 	// Water is the water's optics. Nil means pure water at 20 C
 	// (optics.DefaultWaterConfig); Check fills it in.
 	Water *optics.Water
+	// GdMassFraction is the mass fraction of gadolinium dissolved in the
+	// water (0.001 for 0.1% Gd by mass), for the neutron transport's
+	// captures; it leaves the optics alone. Default 0 (pure water); valid
+	// [0, MaxGdMassFraction].
+	GdMassFraction float64
 	// Liner is the wall between the sensors. Its zero value is a
 	// perfectly black liner; the built-in tanks use optics.DefaultLiner.
 	Liner optics.Liner
@@ -36,6 +41,11 @@ type Setup struct {
 	// the fitters use only its readout window.
 	Trigger pmt.Trigger
 }
+
+// MaxGdMassFraction is the largest gadolinium mass fraction a Setup
+// takes (1%, the range of the neutron transport's capture model; loadings
+// in use are 0.01-0.2%, from memory).
+const MaxGdMassFraction = 0.01
 
 // DefaultTrigger returns a trigger of 10 hits within 200 ns with a
 // readout from 400 ns before to 1000 ns after the trigger time (common
@@ -67,6 +77,9 @@ func (s *Setup) Check() error {
 			return fmt.Errorf("setup: default water: %w", err)
 		}
 		s.Water = w
+	}
+	if !(s.GdMassFraction >= 0 && s.GdMassFraction <= MaxGdMassFraction) {
+		return fmt.Errorf("setup: Setup.GdMassFraction = %g is outside [0, %g]", s.GdMassFraction, MaxGdMassFraction)
 	}
 	if err := s.Liner.Validate(); err != nil {
 		return fmt.Errorf("setup: Setup.Liner: %w", err)

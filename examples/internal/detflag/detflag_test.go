@@ -111,10 +111,25 @@ func TestLoadEventFile(t *testing.T) {
 		t.Errorf("water %+v (absorption x%g), want %+v (x%g)", got.Water.Config(), got.Water.AbsorptionScale(), s.Water.Config(), s.Water.AbsorptionScale())
 	}
 	// Text the reader does not know is an error, not a guess.
-	if _, err := waterFromRun("T=20 C, clear"); err == nil || !strings.Contains(err.Error(), "clear") {
+	if _, _, err := waterFromRun("T=20 C, clear"); err == nil || !strings.Contains(err.Error(), "clear") {
 		t.Errorf("unknown water text: error %v", err)
 	}
 	if _, err := linerFromRun("liner reflectivity 1.5 (diffuse 0.5), photon prescale 1"); err == nil {
 		t.Error("liner reflectivity 1.5: no error")
+	}
+}
+
+// The run tree's water text carries the gadolinium fraction when there is
+// one; pure water's text has none and reads back as 0.
+func TestWaterFromRunGadolinium(t *testing.T) {
+	const pure = "T=20 C, band 250-700 nm, absorption x1, Rayleigh x1, Mie length 0 cm at 500 nm (exponent 1, g 0.9), attenuation length 0 cm at 0 nm"
+	for _, c := range []struct {
+		text string
+		gd   float64
+	}{{pure, 0}, {pure + ", Gd mass fraction 0.001", 0.001}} {
+		_, gd, err := waterFromRun(c.text)
+		if err != nil || gd != c.gd {
+			t.Errorf("%q: Gd %v, error %v; want %v", c.text, gd, err, c.gd)
+		}
 	}
 }

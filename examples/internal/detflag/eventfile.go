@@ -38,14 +38,20 @@ func fromEventFile(path string) (setup.Setup, error) {
 	run := r.Run()
 	var w *optics.Water
 	var liner optics.Liner
+	var gd float64
 	if run.Optics.Recorded {
 		// Format 3 on: the settings as numbers.
 		if w, err = optics.NewWater(run.Optics.Water); err != nil {
 			return setup.Setup{}, fmt.Errorf("-detector %s: run tree water settings: %w", path, err)
 		}
 		liner = run.Optics.Liner
+		if g := gdText.FindStringSubmatch(run.Water); g != nil {
+			if gd, err = strconv.ParseFloat(g[1], 64); err != nil {
+				return setup.Setup{}, fmt.Errorf("-detector %s: run tree water %q: %w", path, run.Water, err)
+			}
+		}
 	} else {
-		if w, err = waterFromRun(run.Water); err != nil {
+		if w, gd, err = waterFromRun(run.Water); err != nil {
 			return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
 		}
 		if liner, err = linerFromRun(run.Options); err != nil {
@@ -61,6 +67,7 @@ func fromEventFile(path string) (setup.Setup, error) {
 		Liner:    liner,
 		Trigger:  run.Trigger,
 	}
+	s.GdMassFraction = gd
 	if err := s.Check(); err != nil {
 		return setup.Setup{}, fmt.Errorf("-detector %s: %w", path, err)
 	}
@@ -76,7 +83,7 @@ const num = `([-+0-9.eE]+|[-+]?Inf|NaN)`
 // waterText matches the run tree's water text.
 var waterText = regexp.MustCompile(`^T=` + num + ` C, band ` + num + `-` + num + ` nm, absorption x` + num +
 	`, Rayleigh x` + num + `, Mie length ` + num + ` cm at ` + num + ` nm \(exponent ` + num + `, g ` + num +
-	`\), attenuation length ` + num + ` cm at ` + num + ` nm$`)
+	`\), attenuation length ` + num + ` cm at ` + num + ` nm(?:, Gd mass fraction ` + num + `)?$`)
 
 // linerText matches the liner at the start of the run tree's options.
 var linerText = regexp.MustCompile(`^liner reflectivity ` + num + ` \(diffuse ` + num + `\)`)
@@ -94,14 +101,22 @@ func floats(m []string) ([]float64, error) {
 	return v, nil
 }
 
-func waterFromRun(text string) (*optics.Water, error) {
+// gdText finds the gadolinium loading in a format-3 run tree's water
+// description (sim writes it only for loaded water).
+var gdText = regexp.MustCompile(`gadolinium mass fraction ([0-9.eE+-]+)`)
+
+func waterFromRun(text string) (*optics.Water, float64, error) {
 	m := waterText.FindStringSubmatch(text)
 	if m == nil {
-		return nil, fmt.Errorf("run tree water %q is not in the form this program reads", text)
+		return nil, 0, fmt.Errorf("run tree water %q is not in the form this program reads", text)
+	}
+	gd := 0.0
+	if m[len(m)-1] == "" { // no gadolinium: pure water
+		m = m[:len(m)-1]
 	}
 	v, err := floats(m)
 	if err != nil {
-		return nil, fmt.Errorf("run tree water %q: %w", text, err)
+		return nil, 0, fmt.Errorf("run tree water %q: %w", text, err)
 	}
 	c := optics.WaterConfig{
 		TemperatureC: v[0], BandLo: v[1], BandHi: v[2], AbsorptionScale: v[3], RayleighScale: v[4],
@@ -115,12 +130,15 @@ func waterFromRun(text string) (*optics.Water, error) {
 	}
 	w, err := optics.NewWater(c)
 	if err != nil {
-		return nil, fmt.Errorf("run tree water %q: %w", text, err)
+		return nil, 0, fmt.Errorf("run tree water %q: %w", text, err)
 	}
 	if c.AttenuationLength > 0 && w.AbsorptionScale() != v[3] {
-		return nil, fmt.Errorf("run tree water %q: the attenuation length gives absorption x%g here, not x%g", text, w.AbsorptionScale(), v[3])
+		return nil, 0, fmt.Errorf("run tree water %q: the attenuation length gives absorption x%g here, not x%g", text, w.AbsorptionScale(), v[3])
 	}
-	return w, nil
+	if len(v) > 11 {
+		gd = v[11]
+	}
+	return w, gd, nil
 }
 
 func linerFromRun(text string) (optics.Liner, error) {
