@@ -132,18 +132,14 @@ func (w *worker) Segment(seg phys.Segment) {
 		return
 	}
 	var err error
-	w.photons, err = w.s.emitter.Emit(seg, w.rng, w.photons[:0])
+	var mean float64
+	w.photons, mean, err = w.s.emitter.EmitMean(seg, w.rng, w.photons[:0])
 	if err != nil {
 		w.err = err
 		return
 	}
 	if p := w.tracker.PrimaryOf(seg.Track); p >= 0 {
 		// The expected physical count, not the pre-scaled draw.
-		mean, err := w.s.emitter.MeanPhotons(seg)
-		if err != nil {
-			w.err = err
-			return
-		}
 		w.visible[p] += mean / w.s.prescale
 	}
 	w.traced += len(w.photons)

@@ -256,19 +256,28 @@ func (e *Emitter) mean(seg phys.Segment, length float64) float64 {
 // returns dst unchanged and an error naming the field. Emit allocates
 // nothing beyond growing dst.
 func (e *Emitter) Emit(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon, error) {
+	dst, _, err := e.EmitMean(seg, rng, dst)
+	return dst, err
+}
+
+// EmitMean is Emit that also returns MeanPhotons(seg), which it computes
+// anyway, so that a caller wanting both pays for it once.
+func (e *Emitter) EmitMean(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon, float64, error) {
 	if err := checkSegment(seg); err != nil {
-		return dst, err
+		return dst, 0, err
 	}
 	axis := seg.End.Sub(seg.Start)
 	length := axis.Norm()
+	mean := e.mean(seg, length)
 	if length == 0 || seg.Charge == 0 {
-		return dst, nil
+		return dst, mean, nil
 	}
-	count := poisson(rng, e.mean(seg, length))
+	count := poisson(rng, mean)
 	if count == 0 {
-		return dst, nil
+		return dst, mean, nil
 	}
 	axis = axis.Mul(1 / length)
+	frame := phys.NewFrame(axis)
 	b0, db := seg.Beta0, seg.Beta1-seg.Beta0
 	t0, dt := seg.T0, seg.T1-seg.T0
 	bmax := math.Max(seg.Beta0, seg.Beta1)
@@ -291,12 +300,12 @@ func (e *Emitter) Emit(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon
 		}
 		dst = append(dst, Photon{
 			Pos:        seg.Start.Add(axis.Mul(u * length)),
-			Dir:        phys.Deflect(axis, 1/nb, 2*math.Pi*rng.Float64()),
+			Dir:        frame.Deflect(1/nb, 2*math.Pi*rng.Float64()),
 			Time:       t0 + dt*u,
 			Wavelength: lambda,
 		})
 	}
-	return dst, nil
+	return dst, mean, nil
 }
 
 func checkSegment(seg phys.Segment) error {

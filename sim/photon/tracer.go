@@ -130,8 +130,9 @@ func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, 
 	}
 	pos, dir, time := ph.Pos, ph.Dir, ph.Time
 	origin := pmt.Direct
+	fl := t.flightConstants(lambda)
 	for inter := 0; inter <= t.maxInter; inter++ {
-		w := t.flight(pos, dir, time, lambda, rng)
+		w := t.flight(pos, dir, time, &fl, rng)
 		switch {
 		case w.lost:
 			return pmt.Photoelectron{}, Lost
@@ -177,11 +178,8 @@ type wallArrival struct {
 // it meets the wall or is absorbed. Free paths are exponential in the
 // total coefficient 1/L_abs + 1/L_scat; at each interaction the photon is
 // absorbed with probability (1/L_abs)/(total), otherwise scattered.
-func (t *Tracer) flight(pos, dir r3.Vector, time, lambda float64, rng *rand.Rand) wallArrival {
-	muAbs := 1 / t.water.AbsorptionLength(lambda)
-	muScat := 1 / t.water.ScatteringLength(lambda)
-	muTot := muAbs + muScat
-	invV := 1 / t.water.GroupVelocity(lambda)
+func (t *Tracer) flight(pos, dir r3.Vector, time float64, fl *flightConstants, rng *rand.Rand) wallArrival {
+	muAbs, muTot, invV := fl.muAbs, fl.muTot, fl.invV
 	var w wallArrival
 	for ; w.scatters <= t.maxInter; w.scatters++ {
 		dWall, surf := t.det.Intersect(pos, dir)
@@ -204,10 +202,26 @@ func (t *Tracer) flight(pos, dir r3.Vector, time, lambda float64, rng *rand.Rand
 			w.absorbed = true
 			return w
 		}
-		dir = phys.Deflect(dir, t.water.SampleScatterCos(lambda, rng), 2*math.Pi*rng.Float64())
+		dir = phys.Deflect(dir, t.water.SampleScatterCosWith(fl.coef, rng), 2*math.Pi*rng.Float64())
 	}
 	w.lost = true
 	return w
+}
+
+// flightConstants are the water's properties at one photon's wavelength,
+// looked up once per photon rather than once per flight.
+type flightConstants struct {
+	coef               optics.Coefficients
+	muAbs, muTot, invV float64
+}
+
+func (t *Tracer) flightConstants(lambda float64) flightConstants {
+	c := t.water.CoefficientsAt(lambda)
+	// The lengths are the reciprocals of the tabulated coefficients; the
+	// double reciprocal keeps the values of the per-length lookups.
+	muAbs := 1 / (1 / c.Absorption)
+	muScat := 1 / (1 / c.Scattering)
+	return flightConstants{coef: c, muAbs: muAbs, muTot: muAbs + muScat, invV: 1 / c.GroupVelocity}
 }
 
 // inwardNormal returns the unit normal of the sensor surface at q,
