@@ -26,9 +26,10 @@ type Config struct {
 	Muon muon.Config
 	// NoDarkNoise switches dark pulses off.
 	NoDarkNoise bool
-	// TraceAllPhotons switches photon pre-scaling off: every Cherenkov
-	// photon is traced and detection is decided at the sensor alone. The
-	// results have the same distribution, at several times the cost.
+	// TraceAllPhotons switches photon pre-scaling and thinning off: every
+	// Cherenkov photon is traced and detection is decided at the sensor
+	// alone. The results have the same distribution, at several times the
+	// cost.
 	TraceAllPhotons bool
 	// KeepUntriggered keeps events that do not trigger (with all their
 	// hits and Triggered = false); otherwise Run drops them.

@@ -11,8 +11,9 @@
 //  2. sim/transport follows them and all their descendants (sim/em for
 //     electrons, positrons and photons, sim/muon for muons);
 //  3. every charged step above threshold emits its Cherenkov photons
-//     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
-//     each photon is traced at once to the wall (sim/photon), so no event
+//     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency and
+//     thinned by their efficiency at the photon's wavelength, and each
+//     photon is traced at once to the wall (sim/photon), so no event
 //     ever holds its photons in memory;
 //  4. dark pulses are added over the signal span plus the readout margins
 //     (pmt.Model.AddDark), photoelectrons are digitized (pmt.Digitizer),

@@ -53,7 +53,20 @@ func New(cfg Config) (*Simulator, error) {
 	if !(prescale > 0) {
 		return nil, fmt.Errorf("sim: the sensor's maximum efficiency is %g: no photon can be detected", prescale)
 	}
-	emitter, err := cherenkov.NewEmitter(cfg.Water, lo, hi, prescale)
+	// Photons are thinned at emission by the sensors' efficiency at their
+	// wavelength (over the prescale), so that few are followed only to be
+	// refused by the photocathode; the cathode applies the angular part.
+	thinned := !cfg.TraceAllPhotons
+	var emitter *cherenkov.Emitter
+	var err error
+	if thinned {
+		sensor := cfg.Sensor
+		emitter, err = cherenkov.NewThinningEmitter(cfg.Water, lo, hi, prescale, func(l float64) float64 {
+			return min(sensor.SpectralEfficiency(l)/prescale, 1)
+		})
+	} else {
+		emitter, err = cherenkov.NewEmitter(cfg.Water, lo, hi, prescale)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
 	}
@@ -76,7 +89,7 @@ func New(cfg Config) (*Simulator, error) {
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
 	}
-	tracer, err := photon.NewTracer(cfg.Detector, &cfg.Sensor, cfg.Water, photon.Config{Liner: cfg.Liner, Prescale: prescale})
+	tracer, err := photon.NewTracer(cfg.Detector, &cfg.Sensor, cfg.Water, photon.Config{Liner: cfg.Liner, Prescale: prescale, Thinned: thinned})
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
 	}

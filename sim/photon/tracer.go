@@ -51,6 +51,12 @@ type Config struct {
 	// sensor model's MaxEfficiency so that survival probabilities stay
 	// at most 1.
 	Prescale float64
+	// Thinned says that the emitter has already kept each photon with
+	// probability SpectralEfficiency(lambda)/Prescale (a
+	// cherenkov.NewThinningEmitter), so that the photocathode applies
+	// only the angular acceptance. Otherwise it applies
+	// Efficiency(lambda, cos)/Prescale.
+	Thinned bool
 	// MaxInteractions bounds the scatterings plus reflections of one
 	// photon; beyond it the photon is counted Lost. 0 means 1000.
 	MaxInteractions int
@@ -63,6 +69,7 @@ type Tracer struct {
 	water    *optics.Water
 	liner    optics.Liner
 	invScale float64
+	thinned  bool
 	maxInter int
 	facing   []r3.Vector // inward facing of each sensor, flat for the hot loop
 	radius   float64     // sensor-surface radius, for the barrel normal
@@ -106,6 +113,7 @@ func NewTracer(det *geom.Detector, model *pmt.Model, water *optics.Water, cfg Co
 		water:    water,
 		liner:    cfg.Liner,
 		invScale: 1 / cfg.Prescale,
+		thinned:  cfg.Thinned,
 		maxInter: cfg.MaxInteractions,
 		facing:   make([]r3.Vector, det.NumSensors()),
 		radius:   det.Tank().SensorRadius(),
@@ -146,7 +154,12 @@ func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, 
 		time = w.time
 		if i := t.det.SensorAt(w.pos, w.surf); i >= 0 {
 			cosInc := -w.dir.Dot(t.facing[i])
-			p := t.model.Efficiency(lambda, cosInc) * t.invScale
+			var p float64
+			if t.thinned {
+				p = t.model.AngularAcceptance(cosInc)
+			} else {
+				p = t.model.Efficiency(lambda, cosInc) * t.invScale
+			}
 			if cosInc > 0 && rng.Float64() < p {
 				return pmt.Photoelectron{Sensor: i, Time: time, Origin: origin}, Detected
 			}
@@ -217,11 +230,7 @@ type flightConstants struct {
 
 func (t *Tracer) flightConstants(lambda float64) flightConstants {
 	c := t.water.CoefficientsAt(lambda)
-	// The lengths are the reciprocals of the tabulated coefficients; the
-	// double reciprocal keeps the values of the per-length lookups.
-	muAbs := 1 / (1 / c.Absorption)
-	muScat := 1 / (1 / c.Scattering)
-	return flightConstants{coef: c, muAbs: muAbs, muTot: muAbs + muScat, invV: 1 / c.GroupVelocity}
+	return flightConstants{coef: c, muAbs: c.Absorption, muTot: c.Absorption + c.Scattering, invV: 1 / c.GroupVelocity}
 }
 
 // inwardNormal returns the unit normal of the sensor surface at q,
