@@ -3,13 +3,14 @@ package geom
 import (
 	"bufio"
 	"fmt"
-	"github.com/conelight/conelight/geom/safefile"
 	"io"
 	"os"
 	"strconv"
 	"strings"
 
 	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 // csvFormat is the value of the @format directive this package reads and writes.

@@ -1,13 +1,14 @@
 package pmt
 
 import (
-	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 func TestDarkCountIsPoisson(t *testing.T) {

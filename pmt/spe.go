@@ -2,11 +2,11 @@ package pmt
 
 import (
 	"fmt"
-	"gonum.org/v1/gonum/stat/distuv"
 	"math"
 	"math/rand/v2"
 
 	"gonum.org/v1/gonum/mathext"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // SPE describes the single-photoelectron charge spectrum: the charge, in

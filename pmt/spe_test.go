@@ -1,7 +1,6 @@
 package pmt
 
 import (
-	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -9,6 +8,8 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 func TestSPECDFMatchesGonumGamma(t *testing.T) {

@@ -46,7 +46,7 @@ func ExampleSimulator_Run() {
 	}
 	// 400 MeV mu- from the centre, isotropic.
 	gun, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: phys.MuonMinus, Energy: gen.FixedEnergy(400), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: phys.MuonMinus, Ekin: gen.FixedEnergy(400), Direction: gen.Isotropic()}},
 		Vertex:    gen.AtPoint(r3.Vector{}),
 	})
 	if err != nil {

@@ -37,6 +37,7 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 		ShardCount:      shards,
 		FirstEvent:      first,
 		Events:          n,
+		Run:             event.Span{First: opt.First, N: opt.Count},
 		Trigger:         s.cfg.Trigger,
 		KeepUntriggered: s.cfg.KeepUntriggered,
 	}, nil
@@ -47,10 +48,15 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 // It returns the number of events written.
 //
 // The file appears under path only when complete: it is written under a
-// temporary name and renamed at the end. When ctx is cancelled, the events
-// finished so far (an in-order prefix of the run) are closed into a
-// complete, readable file and ctx's error is returned; on any other error
-// nothing is left under path.
+// temporary name beside it and renamed at the end. When ctx is cancelled,
+// the events finished so far (an in-order prefix of the run) are closed
+// into a readable file that records the interruption (the rest of the
+// range as missing, see event.Writer.Interrupt), and ctx's error is
+// returned; on any other error nothing is left under path. The events
+// read and those left out (empty, or bad and skipped; see
+// RunOptions.BadEvents), with Run's one-line reason for each, go into the
+// run record (RunInfo.Source) when the generator reads a file
+// (SourceGenerator) or any event was left out.
 func (s *Simulator) WriteRun(ctx context.Context, g gen.Generator, opt RunOptions, path string) (int, error) {
 	if g == nil {
 		return 0, errors.New("sim: WriteRun needs a generator")
@@ -67,9 +73,36 @@ func (s *Simulator) WriteRun(ctx context.Context, g gen.Generator, opt RunOption
 		return 0, err
 	}
 	defer w.Abort()
+	var done uint64 // events simulated, from Run's last progress report
+	progress := opt.Progress
+	opt.Progress = func(p Progress) {
+		done = p.Done
+		if progress != nil {
+			progress(p)
+		}
+	}
+	var leftOut []string // Run's reasons for the events it left out, in order
+	onBad := opt.OnBad
+	opt.OnBad = func(b BadEvent) {
+		leftOut = append(leftOut, b.Reason)
+		if onBad != nil {
+			onBad(b)
+		}
+	}
 	runErr := s.Run(ctx, g, opt, w.Write)
 	if runErr != nil && !errors.Is(runErr, context.Canceled) && !errors.Is(runErr, context.DeadlineExceeded) {
 		return 0, runErr
+	}
+	if done < info.Events {
+		if err := w.Interrupt(done); err != nil {
+			return 0, err
+		}
+	}
+	if _, ok := g.(SourceGenerator); ok || len(leftOut) > 0 {
+		src := event.SourceStats{Read: done, Skipped: uint64(len(leftOut)), Reasons: leftOut}
+		if err := w.SetSource(src); err != nil {
+			return 0, err
+		}
 	}
 	if err := w.Close(); err != nil {
 		return 0, err

@@ -1,6 +1,7 @@
 package sim
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"math/rand/v2"
@@ -86,6 +87,17 @@ func TestShardFilesMergeToTheRun(t *testing.T) {
 	if !reflect.DeepEqual(ra.Detector().Sensors(), s.Config().Detector.Sensors()) || !reflect.DeepEqual(ra.Sensor(), s.Config().Sensor) {
 		t.Error("the file does not give back the detector and sensor it was simulated with")
 	}
+	// Merged under the same name, the shards give the unsplit run's bytes.
+	wholeBytes, err := os.ReadFile(whole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := event.Merge(whole, shards...); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := os.ReadFile(whole); err != nil || !bytes.Equal(b, wholeBytes) {
+		t.Errorf("shards merged into %s differ in bytes from the unsplit run (%v)", whole, err)
+	}
 }
 
 func TestWriteRunCancelled(t *testing.T) {
@@ -112,6 +124,11 @@ func TestWriteRunCancelled(t *testing.T) {
 		if ev.Number != uint64(i) {
 			t.Fatalf("event %d at position %d", ev.Number, i)
 		}
+	}
+	// It says so: interrupted, the rest of the range missing.
+	r, _ := readAll(t, path)
+	if ri := r.Run(); !ri.Interrupted || !reflect.DeepEqual(ri.Missing, []event.Span{{First: uint64(n), N: 100000 - uint64(n)}}) {
+		t.Errorf("cancelled run records Interrupted %v, Missing %v after %d events", ri.Interrupted, ri.Missing, n)
 	}
 	// A failing run leaves nothing under the final name.
 	bad := filepath.Join(dir, "bad.root")
@@ -142,5 +159,64 @@ func TestWriteRunFailureLeavesNoFile(t *testing.T) {
 	entries, _ := os.ReadDir(filepath.Dir(path))
 	if len(entries) != 0 {
 		t.Errorf("failed run left files: %v", entries)
+	}
+}
+
+func TestWriteRunBytesIndependentOfWorkers(t *testing.T) {
+	// The same seed and settings give the same bytes with 1 and 3
+	// workers (and at different times: the file's dates are fixed).
+	path := filepath.Join(t.TempDir(), "run.root")
+	var files [][]byte
+	for _, workers := range []int{1, 3} {
+		s := demoSim(t, workers, nil)
+		if _, err := s.WriteRun(context.Background(), isoElectrons{6}, RunOptions{Count: 6}, path); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		files = append(files, b)
+	}
+	if !bytes.Equal(files[0], files[1]) {
+		t.Error("files of 1 and 3 workers differ in bytes")
+	}
+}
+
+// fileGen stands for a generator that reads a file: it numbers its
+// events from 1000, and event 2 has nothing to track.
+type fileGen struct{ isoElectrons }
+
+func (g fileGen) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
+	p, info, err := g.isoElectrons.Generate(number, rng, dst)
+	info.SourceEvent = 1000 + int(number)
+	if number == 2 {
+		p, info.Skipped = p[:0], 3
+	}
+	return p, info, err
+}
+
+func (g fileGen) SourceFile() string { return "file.hepmc3" }
+
+func TestWriteRunSourceGenerator(t *testing.T) {
+	// Events of a file generator keep their number in the file, and the
+	// run record keeps the run's accounting of the file: 4 events read,
+	// the empty one left out with its reason.
+	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
+	path := filepath.Join(t.TempDir(), "file.root")
+	if _, err := s.WriteRun(context.Background(), fileGen{isoElectrons{6}}, RunOptions{Count: 4}, path); err != nil {
+		t.Fatal(err)
+	}
+	r, evs := readAll(t, path)
+	for _, ev := range evs {
+		in := ev.Truth.Interaction
+		if !in.FromFile || in.SourceEvent != 1000+int64(ev.Number) || in.PDG != 0 || in.Weight != 1 {
+			t.Errorf("event %d: interaction %+v", ev.Number, in)
+		}
+	}
+	want := event.SourceStats{Read: 4, Skipped: 1, Reasons: []string{
+		"sim: event 2 (test electrons, number 1002 in the file): nothing to track: 3 final-state particles not tracked (0 neutrinos)"}}
+	if got := r.Run().Source; !reflect.DeepEqual(got, want) || len(evs) != 3 {
+		t.Errorf("run record Source = %+v, want %+v; %d events", got, want, len(evs))
 	}
 }

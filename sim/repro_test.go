@@ -21,8 +21,8 @@ func reproGun(t *testing.T, s *Simulator) gen.Generator {
 	t.Helper()
 	g, err := gen.NewGun(gen.GunConfig{
 		Particles: []gen.GunParticle{
-			{PDG: phys.Electron, Energy: gen.UniformEnergy(5, 15), Direction: gen.Isotropic()},
-			{PDG: phys.MuonMinus, Energy: gen.FixedEnergy(120), Direction: gen.Isotropic()},
+			{PDG: phys.Electron, Ekin: gen.UniformEnergy(5, 15), Direction: gen.Isotropic()},
+			{PDG: phys.MuonMinus, Ekin: gen.FixedEnergy(120), Direction: gen.Isotropic()},
 		},
 		Vertex: gen.InFiducial(s.Config().Detector.Tank(), 100),
 	})
@@ -125,7 +125,7 @@ func TestReproducible(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	if !reflect.DeepEqual(decoded[0], decoded[1]) || runs[0] != runs[1] {
+	if !reflect.DeepEqual(decoded[0], decoded[1]) || !reflect.DeepEqual(runs[0], runs[1]) {
 		t.Error("the two files decode to different events or run descriptions")
 	}
 	for i, e := range decoded[0] {

@@ -27,15 +27,60 @@ type RunOptions struct {
 	// ProgressEvery (default 1 s) and once at the end.
 	Progress      func(Progress)
 	ProgressEvery time.Duration
+	// BadEvents says what the run does with an event the generator or
+	// the simulation fails on (a malformed event in a file): stop
+	// (StopAtBad, the default) or skip it (SkipBad). Events with nothing
+	// to track are never an error: they are counted as Empty and left
+	// out of the output under either policy.
+	BadEvents BadEventPolicy
+	// OnBad, when set, is called from Run's goroutine, in event order,
+	// for every event left out of the output as empty or skipped, with a
+	// one-line reason naming the event (and for a file, the file, line
+	// and the file's own event number).
+	OnBad func(BadEvent)
+}
+
+// BadEventPolicy says what a run does with a bad event.
+type BadEventPolicy int
+
+const (
+	// StopAtBad ends the run with the first bad event's error.
+	StopAtBad BadEventPolicy = iota
+	// SkipBad leaves bad events out of the output, counts them
+	// (Progress.Skipped) and reports each to RunOptions.OnBad.
+	SkipBad
+)
+
+// String returns "stop" or "skip".
+func (p BadEventPolicy) String() string {
+	switch p {
+	case StopAtBad:
+		return "stop"
+	case SkipBad:
+		return "skip"
+	}
+	return fmt.Sprintf("BadEventPolicy(%d)", int(p))
+}
+
+// BadEvent is an event a run left out of its output.
+type BadEvent struct {
+	Number uint64 // event number in the run
+	// Empty says the event had nothing to track (it is not an error);
+	// otherwise the event was bad and skipped.
+	Empty  bool
+	Reason string
 }
 
 // Progress reports a run's advance.
 type Progress struct {
-	Done, Total uint64 // events simulated (kept or dropped) and to do
+	Done, Total uint64 // events handled (kept, dropped, empty or skipped) and to do
 	Kept        uint64 // events passed to the output
-	Elapsed     time.Duration
-	Rate        float64       // events per second so far
-	Remaining   time.Duration // estimate at the current rate
+	// Empty counts events with nothing to track, Skipped bad events left
+	// out under SkipBad; neither is passed to the output.
+	Empty, Skipped uint64
+	Elapsed        time.Duration
+	Rate           float64       // events per second so far
+	Remaining      time.Duration // estimate at the current rate
 }
 
 // ShardRange returns the first event number and the number of events of
@@ -63,26 +108,11 @@ func (o RunOptions) ShardRange() (first, n uint64, err error) {
 	return first, n, nil
 }
 
-// NeutrinoTruth returns the neutrino part of an event's truth from the
-// generator's information (the zero value for non-neutrino events).
-func NeutrinoTruth(info gen.Info) event.Neutrino {
-	if info.Neutrino == 0 {
-		return event.Neutrino{}
-	}
-	return event.Neutrino{
-		PDG:     info.Neutrino,
-		Energy:  info.NeutrinoEnergy,
-		Dir:     info.NeutrinoDir,
-		Q2:      info.Q2,
-		Target:  info.Target,
-		Nucleon: info.FinalNucleon,
-	}
-}
-
 type result struct {
-	i   uint64
-	ev  *event.Event
-	err error
+	i     uint64
+	ev    *event.Event
+	err   error
+	empty string // why the event had nothing to track, if it had not
 }
 
 // Run simulates the events selected by opt on Config.Workers goroutines
@@ -91,10 +121,13 @@ type result struct {
 // once, so a run of any length streams to its writer. The output is the
 // same for any number of workers.
 //
-// Run stops at the first error from the generator, the simulation or out,
-// and when ctx is cancelled; it returns after every event already handed
-// to out, with the error (ctx.Err() on cancellation). The events passed to
-// out before that are a complete in-order prefix of the run.
+// Run stops at the first error from the generator or the simulation
+// (unless opt.BadEvents is SkipBad), at the first error from out, and when
+// ctx is cancelled; it returns after every event already handed to out,
+// with the error (ctx.Err() on cancellation). The events passed to out
+// before that are a complete in-order prefix of the run. Events with
+// nothing to track are counted (Progress.Empty), reported to opt.OnBad
+// and left out; they do not stop the run.
 func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, out func(*event.Event) error) error {
 	if g == nil || out == nil {
 		return errors.New("sim: Run needs a generator and an output function")
@@ -145,8 +178,10 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 				prims, info, r.err = generate(g, num, rng, prims[:0])
 				if r.err != nil {
 					r.err = fmt.Errorf("sim: event %d: generator: %w", num, r.err)
+				} else if len(prims) == 0 {
+					r.empty = emptyReason(g, num, info)
 				} else if r.ev, r.err = w.simulate(num, rng, prims); r.err == nil {
-					r.ev.Truth.Neutrino = NeutrinoTruth(info)
+					r.ev.Truth.Interaction = InteractionTruth(g, info)
 				}
 				results <- r
 			}
@@ -160,13 +195,13 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 	}
 	start := time.Now()
 	lastReport := start
-	var done, kept uint64
+	var done, kept, empty, skipped uint64
 	report := func() {
 		if opt.Progress == nil {
 			return
 		}
 		el := time.Since(start)
-		p := Progress{Done: done, Total: n, Kept: kept, Elapsed: el}
+		p := Progress{Done: done, Total: n, Kept: kept, Empty: empty, Skipped: skipped, Elapsed: el}
 		if el > 0 {
 			p.Rate = float64(done) / el.Seconds()
 		}
@@ -191,12 +226,28 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 			delete(pending, next)
 			next++
 			<-tokens
+			if r.err != nil && opt.BadEvents == SkipBad {
+				skipped++
+				if opt.OnBad != nil {
+					opt.OnBad(BadEvent{Number: first + r.i, Reason: r.err.Error()})
+				}
+				r.ev, r.empty, r.err = nil, "", nil
+			}
 			if r.err != nil {
 				firstErr = r.err
 				cancel()
 				break
 			}
 			done++
+			if r.ev == nil { // empty or skipped
+				if r.empty != "" {
+					empty++
+					if opt.OnBad != nil {
+						opt.OnBad(BadEvent{Number: first + r.i, Empty: true, Reason: r.empty})
+					}
+				}
+				continue
+			}
 			if r.ev.Truth.Triggered || s.cfg.KeepUntriggered {
 				if err := out(r.ev); err != nil {
 					firstErr = err
@@ -219,6 +270,17 @@ func (s *Simulator) Run(ctx context.Context, g gen.Generator, opt RunOptions, ou
 		return ctx.Err()
 	}
 	return nil
+}
+
+// emptyReason says why event number has nothing to track, naming the
+// generator and, for a file, the file's own event number.
+func emptyReason(g gen.Generator, number uint64, info gen.Info) string {
+	src := g.String()
+	if info.SourceEvent != 0 {
+		src += fmt.Sprintf(", number %d in the file", info.SourceEvent)
+	}
+	return fmt.Sprintf("sim: event %d (%s): nothing to track: %d final-state particles not tracked (%d neutrinos)",
+		number, src, info.Skipped, info.SkippedNeutrinos)
 }
 
 // generate calls the generator and turns a panic inside it (a bug in a

@@ -162,7 +162,7 @@ func TestRunCancelAndErrors(t *testing.T) {
 func TestRunNeutrinoTruth(t *testing.T) {
 	// A quasi-elastic nu_mu run keeps the generator's neutrino truth with
 	// each event, and the charged lepton is the primary.
-	qe, err := gen.NewQE(gen.QEConfig{Neutrino: phys.MuonNeu, Energy: gen.FixedEnergy(600),
+	qe, err := gen.NewQE(gen.QEConfig{Neutrino: phys.MuonNeu, Etot: gen.FixedEnergy(600),
 		Beam: r3.Vector{X: 1}, Vertex: gen.AtPoint(r3.Vector{})})
 	if err != nil {
 		t.Fatal(err)
@@ -171,8 +171,9 @@ func TestRunNeutrinoTruth(t *testing.T) {
 	n := 0
 	err = s.Run(context.Background(), qe, RunOptions{Count: 6}, func(ev *event.Event) error {
 		n++
-		nu := ev.Truth.Neutrino
-		if nu.PDG != phys.MuonNeu || nu.Energy != 600 || nu.Q2 <= 0 || nu.Dir != (r3.Vector{X: 1}) {
+		nu := ev.Truth.Interaction
+		if nu.PDG != phys.MuonNeu || nu.Etot != 600 || nu.Q2 <= 0 || nu.Dir != (r3.Vector{X: 1}) ||
+			nu.Process != 200 || nu.Weight != 1 || nu.FromFile || nu.Target == 0 || nu.Nucleon.PDG != phys.ProtonCode {
 			t.Errorf("event %d: neutrino truth %+v", ev.Number, nu)
 		}
 		if len(ev.Truth.Primaries) != 1 || ev.Truth.Primaries[0].PDG != phys.MuonMinus {

@@ -128,7 +128,7 @@ func TestValidationAudit(t *testing.T) {
 	auditFloats(t, "em.Config", em.DefaultConfig(), nil, func(c em.Config) error { _, err := em.New(material.Water(), c); return err })
 	auditFloats(t, "muon.Config", muon.DefaultConfig(), nil, func(c muon.Config) error { _, err := muon.New(material.Water(), c); return err })
 	auditFloats(t, "gen.FermiGas", gen.OxygenFermiGas(), nil, func(fg gen.FermiGas) error {
-		_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Energy: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1},
+		_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Etot: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1},
 			Vertex: gen.AtPoint(r3.Vector{}), Nucleus: fg})
 		return err
 	})
@@ -152,7 +152,7 @@ func TestBadArguments(t *testing.T) {
 		}
 	}
 	electron := func(e gen.Spectrum, d gen.DirDist) gen.GunParticle {
-		return gen.GunParticle{PDG: 11, Energy: e, Direction: d}
+		return gen.GunParticle{PDG: 11, Ekin: e, Direction: d}
 	}
 	center := gen.AtPoint(r3.Vector{})
 	iso := gen.Isotropic()
@@ -198,30 +198,30 @@ func TestBadArguments(t *testing.T) {
 		{"gen.NewGun reversed range", "5", gunWith(electron(gen.UniformEnergy(5, 1), iso), center)},
 		{"gen.NewGun Inf range", "+Inf", gunWith(electron(gen.UniformEnergy(1, inf), iso), center)},
 		{"gen.NewGun power law NaN index", "NaN", gunWith(electron(gen.PowerLaw(nan, 1, 10), iso), center)},
-		{"gen.NewGun unset energy", "Energy", gunWith(electron(gen.Spectrum{}, iso), center)},
+		{"gen.NewGun unset energy", "Ekin", gunWith(electron(gen.Spectrum{}, iso), center)},
 		{"gen.NewGun zero direction", "Direction: direction (0.0", gunWith(electron(ten, gen.Along(r3.Vector{})), center)},
 		{"gen.NewGun NaN cone", "halfAngle = NaN", gunWith(electron(ten, gen.InCone(r3.Vector{Z: 1}, nan)), center)},
 		{"gen.NewGun unset direction", "Direction", gunWith(electron(ten, gen.DirDist{}), center)},
-		{"gen.NewGun unknown particle", "2212", gunWith(gen.GunParticle{PDG: 2212, Energy: ten, Direction: iso}, center)},
+		{"gen.NewGun unknown particle", "2212", gunWith(gen.GunParticle{PDG: 2212, Ekin: ten, Direction: iso}, center)},
 		{"gen.NewGun Inf time", "Time = +Inf", func() error {
 			_, err := gen.NewGun(gen.GunConfig{Particles: []gen.GunParticle{electron(ten, iso)}, Vertex: center, Time: inf})
 			return err
 		}},
 		{"gen.HistogramSpectrum NaN weight", "weights[0] = NaN", func() error { _, err := gen.HistogramSpectrum([]float64{1, 2}, []float64{nan}); return err }},
 		{"gen.NewQE zero beam", "Beam", func() error {
-			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Energy: gen.FixedEnergy(600), Vertex: center})
+			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Etot: gen.FixedEnergy(600), Vertex: center})
 			return err
 		}},
 		{"gen.NewQE bad neutrino", "Neutrino = 13", func() error {
-			_, err := gen.NewQE(gen.QEConfig{Neutrino: 13, Energy: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1}, Vertex: center})
+			_, err := gen.NewQE(gen.QEConfig{Neutrino: 13, Etot: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1}, Vertex: center})
 			return err
 		}},
 		{"gen.NewQE NaN axial mass", "AxialMass = NaN", func() error {
-			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Energy: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1}, Vertex: center, AxialMass: nan})
+			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Etot: gen.FixedEnergy(600), Beam: r3.Vector{Z: 1}, Vertex: center, AxialMass: nan})
 			return err
 		}},
 		{"gen.NewQE below threshold", "60", func() error {
-			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Energy: gen.FixedEnergy(60), Beam: r3.Vector{Z: 1}, Vertex: center})
+			_, err := gen.NewQE(gen.QEConfig{Neutrino: 14, Etot: gen.FixedEnergy(60), Beam: r3.Vector{Z: 1}, Vertex: center})
 			return err
 		}},
 		{"gen.HepMCOptions NaN time", "Time = NaN", func() error {

@@ -10,8 +10,9 @@
 //	go run ./examples/coverage -attenuation 1500,3000,6000 -tts ""
 //	go run ./examples/coverage -particle mu- -energy 400 -n 40 -sensors medium -tts ""
 //
-// Electrons, positrons and photons up to 100 MeV are reconstructed with the
-// low-energy fitter (package fit); other particles and energies with the
+// Electrons, positrons and photons up to the top of the low-energy
+// fitter's calibration (lowenergy.Fitter.EkinRange, 100 MeV for the
+// built-in tables) are reconstructed with it (fit/lowenergy); other particles and energies with the
 // single-ring fitter (fit/ring), which fits both the electron and the muon
 // hypothesis and so also gives the e/mu mis-identification (about a second
 // per event: keep -n small); -fitter chooses explicitly.
@@ -33,8 +34,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/cli"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"os"
@@ -47,6 +46,10 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
+	"github.com/conelight/conelight/examples/internal/parallel"
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -73,6 +76,7 @@ type options struct {
 	formats     []string
 	quiet       bool
 	fitter      string // auto, low or ring
+	detector    string // -detector (detflag): the tank, water, liner and trigger; empty means the demo tank
 }
 
 // The reference point of the second study axes: the class and coverage the
@@ -112,7 +116,8 @@ func main() {
 	att := flag.String("attenuation", "", "comma-separated water attenuation lengths (cm at 400 nm) at medium 30% (empty: skip)")
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
-	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to 100 MeV, ring otherwise)")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage+"; its tank, water, liner and trigger are kept, its sensors replaced at each point")
+	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to the top of the low-energy fitter's calibrated range, ring otherwise)")
 	cli.Parse(usage)
 	var err error
 	if o.coverages, err = parseList("-coverage", *cov); err != nil {
@@ -173,10 +178,14 @@ type setup struct {
 // point is the measurement at one setup.
 type point struct {
 	setup
-	reached   float64 // coverage the layout reached
-	sensors   int
-	tts       float64 // ns
-	events    int     // simulated
+	reached float64 // coverage the layout reached
+	sensors int
+	tts     float64 // ns
+	// pureWater says the point's water is pure water at 20 C; waterAtt is
+	// its attenuation length (cm) at attenuationWavelength.
+	pureWater bool
+	waterAtt  float64
+	events    int // simulated
 	triggered int
 	fitted    int // converged fits
 	sum       resolution.Summary
@@ -195,16 +204,20 @@ type example struct {
 	energy float64 // fitted, MeV
 }
 
-// lowEnergyMax (MeV) is the top of the low-energy fitter's range (package fit).
-const lowEnergyMax = 100
-
 func isElectromagnetic(pdg int) bool {
 	return pdg == phys.Electron || pdg == phys.Positron || pdg == phys.Gamma
 }
 
-// useRing reports whether the study reconstructs with the single-ring fitter.
-func (o *options) useRing() bool {
-	return o.fitter == "ring" || (o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax))
+// useRing reports whether the study reconstructs with the single-ring
+// fitter; low is the low-energy fitter of the detector (nil with -fitter
+// ring), which "auto" uses for electromagnetic particles up to the top of
+// its calibrated range.
+func (o *options) useRing(low *lowenergy.Fitter) bool {
+	if o.fitter == "ring" {
+		return true
+	}
+	_, lowEnergyMax := low.EkinRange()
+	return o.fitter == "auto" && !(isElectromagnetic(o.pdg()) && o.energy <= lowEnergyMax)
 }
 
 func (o *options) validate() error {
@@ -289,12 +302,12 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) ([]point, err
 		}
 		pts = append(pts, p)
 		att := "pure"
-		if su.attenuation > 0 {
-			att = fmt.Sprintf("%.0f", su.attenuation/100)
+		if su.attenuation > 0 || !p.pureWater {
+			att = fmt.Sprintf("%.0f", p.waterAtt/100)
 		}
 		misID := "-"
-		if e, ok := misIDOf(p); ok {
-			misID = fmt.Sprintf("%s (%d/%d)", est(e, 100), p.misID, p.identified)
+		if b, ok := misIDOf(p); ok {
+			misID = b.Percent()
 		}
 		fmt.Fprintf(stdout, "%-7s %6.3f %7d %8.2f %7s %8d %7d  %-13s %-13s %-14s %-14s %s\n",
 			su.sensor, p.reached, p.sensors, p.tts, att, p.triggered, p.fitted,
@@ -322,17 +335,19 @@ func est(e resolution.Estimate, scale float64) string {
 func measure(ctx context.Context, o options, su setup) (point, error) {
 	model := models[su.sensor]()
 	model.TTS *= su.ttsScale
-	det, err := geom.Layout(geom.DemoTank(), model.CathodeDiameter, su.coverage)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return point{}, err
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	det, err := geom.Layout(cfg.Detector.Tank(), model.CathodeDiameter, su.coverage)
 	if err != nil {
 		return point{}, err
 	}
-	cfg.Detector, cfg.Sensor = det, model
+	// A new layout: the description's dead-sensor indices mean nothing in it.
+	cfg.Detector, cfg.Sensor, cfg.Dead = det, model, nil
 	if su.attenuation > 0 {
-		wc := optics.DefaultWaterConfig()
+		wc := cfg.Water.Config()
+		wc.AbsorptionScale = optics.DefaultWaterConfig().AbsorptionScale
 		wc.AttenuationLength, wc.AttenuationWavelength = su.attenuation, attenuationWavelength
 		if cfg.Water, err = optics.NewWater(wc); err != nil {
 			return point{}, err
@@ -343,7 +358,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		return point{}, err
 	}
 	g, err := gen.NewGun(gen.GunConfig{
-		Particles: []gen.GunParticle{{PDG: o.pdg(), Energy: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
+		Particles: []gen.GunParticle{{PDG: o.pdg(), Ekin: gen.FixedEnergy(o.energy), Direction: gen.Isotropic()}},
 		Vertex:    gen.InFiducial(det.Tank(), fiducial),
 	})
 	if err != nil {
@@ -356,7 +371,9 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	}); err != nil {
 		return point{}, err
 	}
-	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det}
+	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det,
+		pureWater: cfg.Water.Config() == optics.DefaultWaterConfig(),
+		waterAtt:  1 / (1/cfg.Water.AbsorptionLength(attenuationWavelength) + 1/cfg.Water.ScatteringLength(attenuationWavelength))}
 	var fits, truth []resolution.Sample
 	add := func(ev *event.Event, tr display.Track, energy float64) {
 		pr := ev.Truth.Primaries[0]
@@ -367,10 +384,17 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 		}
 	}
 	n := s.Config().Water.Index(referenceWavelength)
-	if o.useRing() {
+	var low *lowenergy.Fitter
+	if o.fitter != "ring" {
+		c := s.Config()
+		if low, err = lowenergy.New(lowenergy.Config{Setup: c.Setup}); err != nil {
+			return point{}, err
+		}
+	}
+	if o.useRing(low) {
 		err = fitRing(ctx, o, s.Config(), evs, &p, n, add)
 	} else {
-		err = fitLow(ctx, s.Config(), evs, n, add)
+		err = fitLow(ctx, low, evs, n, add)
 	}
 	if err != nil {
 		return point{}, err
@@ -386,11 +410,7 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 
 // fitLow reconstructs the events with the low-energy fitter and passes
 // the converged ones to add.
-func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
-	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
-	if err != nil {
-		return err
-	}
+func fitLow(ctx context.Context, f *lowenergy.Fitter, evs []*event.Event, n float64, add func(*event.Event, display.Track, float64)) error {
 	results := make([]lowenergy.Result, len(evs))
 	errs := make([]error, len(evs))
 	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
@@ -402,8 +422,8 @@ func fitLow(ctx context.Context, cfg sim.Config, evs []*event.Event, n float64, 
 		if errs[i] != nil {
 			return fmt.Errorf("event %d: %w", evs[i].Number, errs[i])
 		}
-		if r.Converged {
-			add(evs[i], display.Track{Vertex: r.Vertex, Dir: r.Dir, CosCherenkov: 1 / n, Label: "low-energy fit"}, r.Energy)
+		if r.Status == fit.Converged {
+			add(evs[i], display.Track{Vertex: r.Track.Vertex, Dir: r.Track.Dir, CosCherenkov: 1 / n, Label: "low-energy fit"}, r.Track.Ekin)
 		}
 	}
 	return nil
@@ -418,17 +438,17 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	if isElectromagnetic(o.pdg()) {
 		want = ring.Electron
 	}
-	rf, err := ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true})
+	rf, err := ring.New(ring.Config{Setup: cfg.Setup, SkipUncertainties: true})
 	if err != nil {
 		return err
 	}
-	if lo, hi := rf.EnergyRange(want); o.energy < lo || o.energy > hi {
+	if lo, hi := rf.EkinRange(want); o.energy < lo || o.energy > hi {
 		return fmt.Errorf("-energy = %g MeV is outside the ring fitter's %s tables (%g to %g MeV)", o.energy, want, lo, hi)
 	}
 	recs := make([]ring.Reconstruction, len(evs))
 	errs := make([]error, len(evs))
-	if err := parallel.Each(ctx, len(evs), rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(evs[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(evs[i].Hits, ring.Window{})
 	}); err != nil {
 		return err
 	}
@@ -446,7 +466,7 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 		if want == ring.Muon {
 			r = &recs[i].Muon
 		}
-		if r.Converged {
+		if r.Status == fit.Converged {
 			cos := math.Min(1/(n*phys.Beta(r.Track.Ekin, want.Mass())), 0.999)
 			add(evs[i], display.Track{Vertex: r.Track.Vertex, Dir: r.Track.Dir, CosCherenkov: cos, Label: "ring fit (" + want.String() + ")"}, r.Track.Ekin)
 		}
@@ -454,31 +474,39 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	return nil
 }
 
-// misIDOf returns the mis-identified fraction of p, if it was measured.
-func misIDOf(p point) (resolution.Estimate, bool) {
+// misIDOf returns the mis-identified fraction of p, if it was measured:
+// the central Clopper-Pearson interval, or the one-sided limit when none
+// (or all) are mis-identified (resolution.Proportion).
+func misIDOf(p point) (resolution.Binomial, bool) {
 	if p.identified == 0 {
-		return resolution.Estimate{}, false
+		return resolution.Binomial{}, false
 	}
-	e, err := display.Fraction(p.misID, p.identified)
-	return e, err == nil
+	b, err := resolution.Proportion(p.misID, p.identified)
+	return b, err == nil
 }
 
-// quantity is one resolution column of the study plots.
+// quantity is one resolution column of the study plots: the point of a
+// measurement at x, if it was measured.
 type quantity struct {
-	label string
-	scale float64
-	get   func(point) (resolution.Estimate, bool)
+	title, label, caption string
+	point                 func(p point, x float64) (display.Point, bool)
 }
 
-func summaryOf(f func(resolution.Summary) resolution.Estimate) func(point) (resolution.Estimate, bool) {
-	return func(p point) (resolution.Estimate, bool) { return f(p.sum), p.fitted >= 5 }
+func summaryOf(scale float64, f func(resolution.Summary) resolution.Estimate) func(point, float64) (display.Point, bool) {
+	return func(p point, x float64) (display.Point, bool) {
+		e := f(p.sum)
+		return display.Point{X: x, Y: scale * e.Value, Err: scale * e.Err}, p.fitted >= 5
+	}
 }
 
 var quantities = []quantity{
-	{"vertex resolution, 68% (cm)", 1, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
-	{"direction resolution, 68% (deg)", 1, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
-	{"energy resolution (%)", 100, summaryOf(func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
-	{"e/mu mis-identification, ring fit (%)", 100, misIDOf},
+	{"vertex resolution", "vertex 68% (cm)", "68% quantile of the distance to the true vertex", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Vertex68 })},
+	{"direction resolution", "direction 68% (deg)", "68% quantile of the angle to the true direction", summaryOf(1, func(s resolution.Summary) resolution.Estimate { return s.Direction68 })},
+	{"energy resolution", "σ(ΔE/E) (%)", "σ of the Gaussian core of (E_fit - E_true)/E_true", summaryOf(100, func(s resolution.Summary) resolution.Estimate { return s.EnergyResolution })},
+	{"e/mu mis-identification, ring fit", "mis-identified (%)", "bars: 68.3% CL Clopper-Pearson, arrows: 90% CL limits", func(p point, x float64) (display.Point, bool) {
+		b, ok := misIDOf(p)
+		return display.PointOfProportion(x, b, 100), ok
+	}},
 }
 
 // studyRow is one row of plots: the three resolutions against x for each
@@ -491,19 +519,19 @@ func studyRow(title, xlabel string, groups []string, pts [][]point, x func(point
 		for g, name := range groups {
 			s := display.Series{Name: name}
 			for _, p := range pts[g] {
-				e, ok := q.get(p)
+				pt, ok := q.point(p, x(p))
 				if !ok {
 					continue
 				}
 				n++
-				s.Points = append(s.Points, display.Point{X: x(p), Y: q.scale * e.Value, Err: q.scale * e.Err})
+				s.Points = append(s.Points, pt)
 			}
 			series = append(series, s)
 		}
 		if n == 0 {
 			continue
 		}
-		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: title, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
+		pl, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: q.title + ", " + title, Caption: q.caption, XLabel: xlabel, YLabel: q.label, Series: series, YFromZero: true})
 		if err != nil {
 			return nil, err
 		}

@@ -77,7 +77,7 @@ func TestRingTiny(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if pts[0].identified == 0 || !strings.Contains(out.String(), "/"+strconv.Itoa(pts[0].identified)+")") {
+	if pts[0].identified == 0 || !strings.Contains(out.String(), strconv.Itoa(pts[0].misID)+"/"+strconv.Itoa(pts[0].identified)+" ") {
 		t.Errorf("no identities in the table:\n%s", out.String())
 	}
 	w, h := display.PixelSize(4*13*vg.Inch/3, 4.5*vg.Inch)

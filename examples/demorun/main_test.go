@@ -9,9 +9,13 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/golang/geo/r3"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
+	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/fit/ring"
 )
 
 func TestRunTiny(t *testing.T) {
@@ -75,5 +79,21 @@ func TestReconstructTiny(t *testing.T) {
 		if st, err := os.Stat(filepath.Join(dir, f.name+".svg")); err != nil || st.Size() < 1000 {
 			t.Errorf("%s.svg: %v", f.name, err)
 		}
+	}
+}
+
+func TestRingPulls(t *testing.T) {
+	// Pulls are (fit - true) / uncertainty per coordinate and for the
+	// kinetic energy, and only from fits with valid uncertainties.
+	r := ring.Result{ErrorsValid: true, Track: fit.Track{Vertex: r3.Vector{X: 10, Y: -4, Z: 3}, Ekin: 330},
+		Errors: fit.Errors{Vertex: r3.Vector{X: 5, Y: 2, Z: 1}, Ekin: 15}}
+	tr := resolution.Sample{Vertex: r3.Vector{X: 0, Y: 0, Z: 0}, Energy: 300}
+	v, e, ok := ringPulls(&r, tr)
+	if !ok || v != [3]float64{2, -2, 3} || e != 2 {
+		t.Errorf("ringPulls = %v, %v, %v; want [2 -2 3], 2, true", v, e, ok)
+	}
+	r.ErrorsValid = false
+	if _, _, ok := ringPulls(&r, tr); ok {
+		t.Error("pulls from a fit without valid uncertainties")
 	}
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"fmt"
-	"github.com/conelight/conelight/examples/internal/parallel"
 	"io"
 	"math"
 	"path/filepath"
@@ -14,6 +13,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/examples/internal/parallel"
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -22,10 +23,6 @@ import (
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// lowEnergyMax is the highest energy (MeV) fitted with the low-energy
-// fitter, the top of its tables' range (package fit).
-const lowEnergyMax = 100
 
 // minSummary is the fewest fitted events resolution.Summarize accepts.
 const minSummary = 5
@@ -46,6 +43,8 @@ type sample struct {
 	tried         int
 	// Pulls of the low-energy fit: vertex coordinates and energy.
 	vertexPull, energyPull []float64
+	// Pulls of the ring fit under the true hypothesis (ringPulls).
+	ringVertexPull, ringEnergyPull []float64
 	// Identity from the ring fit: events identified, and correctly.
 	identified, correct int
 	// exiting counts the converged ring fits of tracks that leave the
@@ -72,13 +71,16 @@ func isElectromagnetic(pdg int) bool {
 // reconstruct fits every sample, prints the resolution table and writes
 // the figures.
 func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg sim.Config, samples []*sample) error {
-	low, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	low, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		return err
 	}
+	// Electromagnetic samples up to the top of the low-energy fitter's
+	// calibration go to it; below its bottom nothing fits better.
+	_, lowEnergyMax := low.EkinRange()
 	var rf *ring.Fitter
 	if o.ringFit > 0 {
-		if rf, err = ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true}); err != nil {
+		if rf, err = ring.New(ring.Config{Setup: cfg.Setup}); err != nil {
 			return err
 		}
 	}
@@ -105,6 +107,10 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	if err != nil {
 		return err
 	}
+	if len(files) == 0 {
+		fmt.Fprintln(stdout, "\nno figures: no sample was reconstructed")
+		return nil
+	}
 	fmt.Fprintf(stdout, "\nfigures: %s\n", strings.Join(files, " "))
 	return nil
 }
@@ -117,7 +123,7 @@ func hypothesisOf(pdg int) ring.Hypothesis {
 }
 
 func inRingRange(rf *ring.Fitter, sm *sample) bool {
-	lo, hi := rf.EnergyRange(hypothesisOf(sm.pdg))
+	lo, hi := rf.EkinRange(hypothesisOf(sm.pdg))
 	return sm.energy >= lo && sm.energy <= hi
 }
 
@@ -139,24 +145,24 @@ func fitLow(ctx context.Context, f *lowenergy.Fitter, sm *sample, n float64) err
 		if errs[i] != nil {
 			return fmt.Errorf("%s %g MeV event %d: %w", sm.name, sm.energy, sm.events[i].Number, errs[i])
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			continue
 		}
 		tr := truthOf(sm.events[i])
-		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Vertex, Dir: r.Dir, Energy: r.Energy})
+		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Track.Vertex, Dir: r.Track.Dir, Energy: r.Track.Ekin})
 		sm.truth = append(sm.truth, tr)
-		d := r.Vertex.Sub(tr.Vertex)
-		for _, c := range [][2]float64{{d.X, r.VertexErr.X}, {d.Y, r.VertexErr.Y}, {d.Z, r.VertexErr.Z}} {
+		d := r.Track.Vertex.Sub(tr.Vertex)
+		for _, c := range [][2]float64{{d.X, r.Errors.Vertex.X}, {d.Y, r.Errors.Vertex.Y}, {d.Z, r.Errors.Vertex.Z}} {
 			if c[1] > 0 {
 				sm.vertexPull = append(sm.vertexPull, c[0]/c[1])
 			}
 		}
-		if r.EnergyErr > 0 {
-			sm.energyPull = append(sm.energyPull, (r.Energy-tr.Energy)/r.EnergyErr)
+		if r.Errors.Ekin > 0 {
+			sm.energyPull = append(sm.energyPull, (r.Track.Ekin-tr.Energy)/r.Errors.Ekin)
 		}
 		if sm.example == nil {
 			sm.example = sm.events[i]
-			sm.exampleTrack = track{vertex: r.Vertex, dir: r.Dir, time: r.Time, cos: 1 / n, label: "low-energy fit"}
+			sm.exampleTrack = track{vertex: r.Track.Vertex, dir: r.Track.Dir, time: r.Track.Time, cos: 1 / n, label: "low-energy fit"}
 		}
 	}
 	return nil
@@ -172,8 +178,8 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 	if !o.quiet {
 		fmt.Fprintf(stderr, "\r%-20s 0/%d events ", label, k)
 	}
-	if err := parallel.Each(ctx, k, rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(sm.events[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, k, func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(sm.events[i].Hits, ring.Window{})
 		mu.Lock()
 		done++
 		if !o.quiet {
@@ -204,7 +210,7 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 		if want == ring.Muon {
 			r = &rec.Muon
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			continue
 		}
 		if r.Exiting() {
@@ -214,6 +220,10 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 		tr := truthOf(sm.events[i])
 		sm.fitted = append(sm.fitted, resolution.Sample{Vertex: r.Track.Vertex, Dir: r.Track.Dir, Energy: r.Track.Ekin})
 		sm.truth = append(sm.truth, tr)
+		if v, e, ok := ringPulls(r, tr); ok {
+			sm.ringVertexPull = append(sm.ringVertexPull, v[:]...)
+			sm.ringEnergyPull = append(sm.ringEnergyPull, e)
+		}
 		if sm.example == nil {
 			beta := phys.Beta(r.Track.Ekin, want.Mass())
 			sm.example = sm.events[i]
@@ -224,13 +234,33 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 	return nil
 }
 
+// ringPulls returns the vertex (x, y, z) and kinetic-energy pulls of a
+// ring fit against the truth, when the fit holds valid uncertainties (the
+// fitter computes them for the hypothesis with the better likelihood
+// only). It is the one place that reads the ring fitter's uncertainties.
+func ringPulls(r *ring.Result, tr resolution.Sample) (vertex [3]float64, energy float64, ok bool) {
+	e := r.Errors
+	if !r.ErrorsValid || !(e.Vertex.X > 0 && e.Vertex.Y > 0 && e.Vertex.Z > 0 && e.Ekin > 0) {
+		return vertex, 0, false
+	}
+	d := r.Track.Vertex.Sub(tr.Vertex)
+	return [3]float64{d.X / e.Vertex.X, d.Y / e.Vertex.Y, d.Z / e.Vertex.Z}, (r.Track.Ekin - tr.Energy) / e.Ekin, true
+}
+
 func est(e resolution.Estimate, scale float64) string {
 	return fmt.Sprintf("%.1f ± %.1f", scale*e.Value, scale*e.Err)
 }
 
+// interval writes a quantile with its asymmetric 1-sigma bounds: with
+// few events the bounds are far from symmetric, and a symmetric error
+// larger than the value would reach below zero.
+func interval(q resolution.Interval) string {
+	return fmt.Sprintf("%.1f +%.1f/-%.1f", q.Value, q.Hi-q.Value, q.Value-q.Lo)
+}
+
 func printTable(w io.Writer, samples []*sample) {
 	fmt.Fprintf(w, "\nreconstruction (resolutions of converged fits; identity from the two-hypothesis ring fit)\n")
-	fmt.Fprintf(w, "%-6s %8s %-10s %9s  %-13s %-13s %-13s %-13s %s\n",
+	fmt.Fprintf(w, "%-6s %8s %-10s %9s  %-17s %-17s %-13s %-13s %s\n",
 		"part.", "E (MeV)", "fitter", "conv/fit", "vertex68(cm)", "dir68(deg)", "E res. (%)", "E bias (%)", "identified correctly")
 	for _, sm := range samples {
 		if sm.fitter == "" {
@@ -240,17 +270,22 @@ func printTable(w io.Writer, samples []*sample) {
 		cols := []string{"-", "-", "-", "-"}
 		if len(sm.fitted) >= minSummary {
 			if s, err := resolution.Summarize(sm.fitted, sm.truth); err == nil {
-				cols = []string{est(s.Vertex68, 1), est(s.Direction68, 1), est(s.EnergyResolution, 100), est(s.EnergyBias, 100)}
+				cols = []string{interval(s.Vertex68Interval), interval(s.Direction68Interval), est(s.EnergyResolution, 100), est(s.EnergyBias, 100)}
 			}
 		}
 		id := "-"
 		if sm.fitter == "ring" && sm.identified > 0 {
-			f, _ := display.Fraction(sm.correct, sm.identified)
-			id = fmt.Sprintf("%d/%d = %.0f ± %.0f%%", sm.correct, sm.identified, 100*f.Value, 100*f.Err)
+			if b, err := resolution.Proportion(sm.correct, sm.identified); err == nil {
+				id = b.Percent()
+			}
 		}
-		fmt.Fprintf(w, "%-6s %8g %-10s %4d/%-4d  %-13s %-13s %-13s %-13s %s\n",
+		fmt.Fprintf(w, "%-6s %8g %-10s %4d/%-4d  %-17s %-17s %-13s %-13s %s\n",
 			sm.name, sm.energy, sm.fitter, len(sm.fitted), sm.tried, cols[0], cols[1], cols[2], cols[3], id)
 	}
+	fmt.Fprintf(w, "vertex68, dir68: 68%% quantiles of the distance to the true vertex and the angle to the true direction,\n"+
+		"  with the order statistics at ranks n p -/+ sqrt(n p (1-p)) as 1-sigma bounds; E res., E bias: width and mean\n"+
+		"  of the Gaussian core of (E_fit - E_true)/E_true; identified correctly: central 68.3%% CL Clopper-Pearson\n"+
+		"  interval, or the 90%% CL one-sided limit when all or none of the identified events are\n")
 	for _, sm := range samples {
 		if sm.exiting > 0 {
 			fmt.Fprintf(w, "%s %g MeV: %d of %d ring fits leave the tank; their energies are lower bounds, left out of the resolutions\n",
@@ -370,14 +405,19 @@ func resolutionFigure(samples []*sample, save saver) error {
 	if len(keys) == 0 {
 		return nil
 	}
-	labels := []string{"vertex resolution, 68% (cm)", "direction resolution, 68% (deg)", "energy resolution (%)", "energy bias (%)"}
+	panels := []struct{ title, caption, label string }{
+		{"vertex resolution", "68% quantile of the distance to the true vertex", "vertex 68% (cm)"},
+		{"direction resolution", "68% quantile of the angle to the true direction", "direction 68% (deg)"},
+		{"energy resolution", "σ of the Gaussian core of ΔE/E, ΔE = E_fit - E_true", "σ(ΔE/E) (%)"},
+		{"energy bias", "mean of the Gaussian core of ΔE/E, ΔE = E_fit - E_true", "mean ΔE/E (%)"},
+	}
 	var plots []*plot.Plot
-	for i, l := range labels {
+	for i, pn := range panels {
 		var ss []display.Series
 		for _, k := range keys {
 			ss = append(ss, series[k][i])
 		}
-		p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: "demo tank", XLabel: "kinetic energy (MeV)", YLabel: l, Series: ss,
+		p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: pn.title + ", converged fits, demo tank", Caption: pn.caption, XLabel: "kinetic energy (MeV)", YLabel: pn.label, Series: ss,
 			LogX: true, YFromZero: i < 3, ZeroLine: i == 3})
 		if err != nil {
 			return err
@@ -387,29 +427,49 @@ func resolutionFigure(samples []*sample, save saver) error {
 	return save("resolution", display.Grid{Rows: 2, Cols: 2, Plots: plots}, 10*vg.Inch, 8*vg.Inch)
 }
 
-// pullFigure plots the low-energy fit's vertex and energy pulls.
+// pullFigure plots the vertex and energy pulls of each fitter that has
+// enough of them: a row for the low-energy fit, a row for the ring fit.
 func pullFigure(samples []*sample, save saver) error {
-	var vp, ep []float64
+	var vp, ep, rvp, rep []float64
 	for _, sm := range samples {
 		vp = append(vp, sm.vertexPull...)
 		ep = append(ep, sm.energyPull...)
+		rvp = append(rvp, sm.ringVertexPull...)
+		rep = append(rep, sm.ringEnergyPull...)
 	}
-	if len(vp) < minSummary || len(ep) < minSummary {
+	const xlabel = "(fit - true) / fit uncertainty"
+	var plots []*plot.Plot
+	for _, f := range []struct {
+		fitter           string
+		vertex, energy   []float64
+		vertexT, energyT string
+	}{
+		{"low-energy fit", vp, ep, "vertex x, y, z", "kinetic energy"},
+		{"ring fit (true hypothesis)", rvp, rep, "track start x, y, z", "kinetic energy"},
+	} {
+		if len(f.vertex) < minSummary || len(f.energy) < minSummary {
+			continue
+		}
+		a, err := display.NewPullPlot(display.PullConfig{Title: f.fitter + ": " + f.vertexT, XLabel: xlabel, Pulls: f.vertex})
+		if err != nil {
+			return err
+		}
+		b, err := display.NewPullPlot(display.PullConfig{Title: f.fitter + ": " + f.energyT, XLabel: xlabel, Pulls: f.energy})
+		if err != nil {
+			return err
+		}
+		plots = append(plots, a, b)
+	}
+	if len(plots) == 0 {
 		return nil
 	}
-	a, err := display.NewPullPlot(display.PullConfig{Title: "low-energy fit: vertex x, y, z", XLabel: "(fit - true) / fit uncertainty", Pulls: vp})
-	if err != nil {
-		return err
-	}
-	b, err := display.NewPullPlot(display.PullConfig{Title: "low-energy fit: energy", XLabel: "(fit - true) / fit uncertainty", Pulls: ep})
-	if err != nil {
-		return err
-	}
-	return save("pulls", display.Grid{Rows: 1, Cols: 2, Plots: []*plot.Plot{a, b}}, 10*vg.Inch, 4*vg.Inch)
+	rows := len(plots) / 2
+	return save("pulls", display.Grid{Rows: rows, Cols: 2, Plots: plots}, 10*vg.Inch, vg.Length(rows)*4*vg.Inch)
 }
 
 // misIDFigure plots the fraction of ring-fitted events identified as the
-// other particle against the true momentum.
+// other particle against the true momentum: central Clopper-Pearson
+// intervals, and one-sided limits where none (or all) are mis-identified.
 func misIDFigure(samples []*sample, save saver) error {
 	var ss []display.Series
 	idx := map[string]int{}
@@ -417,7 +477,7 @@ func misIDFigure(samples []*sample, save saver) error {
 		if sm.fitter != "ring" || sm.identified == 0 {
 			continue
 		}
-		f, err := display.Fraction(sm.identified-sm.correct, sm.identified)
+		b, err := resolution.Proportion(sm.identified-sm.correct, sm.identified)
 		if err != nil {
 			return err
 		}
@@ -432,12 +492,13 @@ func misIDFigure(samples []*sample, save saver) error {
 			return err
 		}
 		p := phys.Momentum(sm.energy, sp.Mass)
-		ss[i].Points = append(ss[i].Points, display.Point{X: p, Y: 100 * f.Value, Err: 100 * f.Err})
+		ss[i].Points = append(ss[i].Points, display.PointOfProportion(p, b, 100))
 	}
 	if len(ss) == 0 {
 		return nil
 	}
-	p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: "ring fit: e/mu mis-identification", XLabel: "true momentum (MeV/c)",
+	p, err := display.NewErrorPlot(display.ErrorPlotConfig{Title: "ring fit: e/mu mis-identification",
+		Caption: "bars: 68.3% CL Clopper-Pearson; arrows: 90% CL limits", XLabel: "true momentum (MeV/c)",
 		YLabel: "mis-identified (%)", Series: ss, YFromZero: true})
 	if err != nil {
 		return err

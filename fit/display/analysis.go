@@ -7,6 +7,7 @@ import (
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
@@ -70,7 +71,9 @@ type ResidualConfig struct {
 }
 
 // NewResidualPlot returns the histogram of the hits' time residuals.
-// Residuals outside the range are counted in the first or last bin.
+// Residuals outside the range are counted in an underflow and an overflow
+// bin drawn apart from the histogram, in grey and labelled as such; the
+// title's second line defines t0, v and v_g.
 func NewResidualPlot(cfg ResidualConfig) (*plot.Plot, error) {
 	res, err := Residuals(cfg.Detector, cfg.Hits, cfg.Vertex, cfg.Time, cfg.GroupVelocity)
 	if err != nil {
@@ -89,9 +92,12 @@ func NewResidualPlot(cfg ResidualConfig) (*plot.Plot, error) {
 	if bins < 1 || bins > 10000 {
 		return nil, fmt.Errorf("display: ResidualConfig.Bins = %d must be in 1..10000", bins)
 	}
-	h := histogram(res, lo, hi, bins)
+	h, under, over := histogram(res, lo, hi, bins)
 	p := plot.New()
-	p.Title.Text = cfg.Title
+	p.Title.Text = cfg.Title + "\n" + fmt.Sprintf("t0, v: fitted time, vertex; x: sensor; v_g = %.4g cm/ns", cfg.GroupVelocity)
+	if cfg.Title == "" {
+		p.Title.Text = p.Title.Text[1:]
+	}
 	p.X.Label.Text = "time residual t - t0 - |x - v| / v_g (ns)"
 	p.Y.Label.Text = fmt.Sprintf("hits / %.3g ns", (hi-lo)/float64(bins))
 	bar, err := newBars(h, lo, hi)
@@ -99,12 +105,13 @@ func NewResidualPlot(cfg ResidualConfig) (*plot.Plot, error) {
 		return nil, err
 	}
 	p.Add(bar)
-	p.Legend.Add(fmt.Sprintf("%d hits", len(res)), bar)
+	p.Legend.Add(fmt.Sprintf("%d hits, %d of them outside %s to %s ns (grey bins)", len(res), under+over, formatTick(lo, decimals([]float64{lo, hi})), formatTick(hi, decimals([]float64{lo, hi}))), bar)
+	top := 0.0
+	for _, c := range h {
+		top = math.Max(top, c)
+	}
+	top = math.Max(top, float64(max(under, over)))
 	if cfg.PromptHi > cfg.PromptLo {
-		top := 0.0
-		for _, c := range h {
-			top = math.Max(top, c)
-		}
 		for i, x := range []float64{cfg.PromptLo, cfg.PromptHi} {
 			l, err := plotter.NewLine(plotter.XYs{{X: x, Y: 0}, {X: x, Y: 1.05 * top}})
 			if err != nil {
@@ -117,20 +124,105 @@ func NewResidualPlot(cfg ResidualConfig) (*plot.Plot, error) {
 			}
 		}
 	}
-	p.Legend.Top = true
-	p.X.Min, p.X.Max = lo, hi
+	addFlow(p, lo, hi, bins, under, over, " ns")
+	p.Y.Min, p.Y.Max = 0, 1.15*top
 	return p, nil
 }
 
-// histogram counts x in bins equal bins of [lo, hi), the under- and
-// overflow in the first and last bin.
-func histogram(x []float64, lo, hi float64, bins int) []float64 {
-	h := make([]float64, bins)
+// histogram counts x in bins equal bins of [lo, hi) and returns the
+// counts below lo (under) and at or above hi (over) apart.
+func histogram(x []float64, lo, hi float64, bins int) (h []float64, under, over int) {
+	h = make([]float64, bins)
 	for _, v := range x {
-		i := int(math.Floor((v - lo) / (hi - lo) * float64(bins)))
-		h[max(0, min(bins-1, i))]++
+		switch i := int(math.Floor((v - lo) / (hi - lo) * float64(bins))); {
+		case v < lo:
+			under++
+		case v >= hi || i >= bins:
+			over++
+		default:
+			h[max(0, i)]++
+		}
 	}
-	return h
+	return h, under, over
+}
+
+// flowBins draws the underflow and overflow of a histogram over [lo, hi)
+// as two grey bars apart from it, each labelled with what it holds.
+type flowBins struct {
+	lo, hi, width, gap float64
+	under, over        int
+	unit               string
+}
+
+// flowBars returns the x extent of the underflow and overflow bars.
+func (f flowBins) bars() [2][2]float64 {
+	return [2][2]float64{{f.lo - f.gap - f.width, f.lo - f.gap}, {f.hi + f.gap, f.hi + f.gap + f.width}}
+}
+
+func (f flowBins) DataRange() (xmin, xmax, ymin, ymax float64) {
+	b := f.bars()
+	return b[0][0], b[1][1], 0, float64(max(f.under, f.over))
+}
+
+// label returns the text over bar i (0 underflow, 1 overflow) and its count.
+func (f flowBins) label(i int) (string, int) {
+	dec := decimals([]float64{f.lo, f.hi})
+	if i == 0 {
+		return fmt.Sprintf("underflow\n< %s%s\n%d", formatTick(f.lo, dec), f.unit, f.under), f.under
+	}
+	return fmt.Sprintf("overflow\n≥ %s%s\n%d", formatTick(f.hi, dec), f.unit, f.over), f.over
+}
+
+func (f flowBins) style(p *plot.Plot) text.Style {
+	sty := p.X.Tick.Label
+	sty.XAlign, sty.YAlign = draw.XCenter, draw.YBottom
+	return sty
+}
+
+// GlyphBoxes keeps the labels inside the plot.
+func (f flowBins) GlyphBoxes(p *plot.Plot) []plot.GlyphBox {
+	var bs []plot.GlyphBox
+	sty := f.style(p)
+	for i, b := range f.bars() {
+		t, n := f.label(i)
+		r := sty.Rectangle(t)
+		w, h := r.Max.X-r.Min.X, r.Max.Y-r.Min.Y
+		bs = append(bs, plot.GlyphBox{X: p.X.Norm((b[0] + b[1]) / 2), Y: p.Y.Norm(float64(n)),
+			Rectangle: vg.Rectangle{Min: vg.Point{X: -w / 2, Y: 0}, Max: vg.Point{X: w / 2, Y: h + vg.Points(2)}}})
+	}
+	return bs
+}
+
+func (f flowBins) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	sty := f.style(p)
+	for i, b := range f.bars() {
+		text, n := f.label(i)
+		x0, x1, y0, y1 := trX(b[0]), trX(b[1]), trY(0), trY(float64(n))
+		var r vg.Path
+		r.Move(vg.Point{X: x0, Y: y0})
+		r.Line(vg.Point{X: x1, Y: y0})
+		r.Line(vg.Point{X: x1, Y: y1})
+		r.Line(vg.Point{X: x0, Y: y1})
+		r.Close()
+		c.SetColor(flowColour)
+		c.Fill(r)
+		c.SetLineStyle(draw.LineStyle{Color: wallLine, Width: vg.Points(0.6)})
+		c.Stroke(r)
+		c.FillText(sty, vg.Point{X: (x0 + x1) / 2, Y: y1 + vg.Points(2)}, text)
+	}
+}
+
+// addFlow adds the under- and overflow bars of a histogram of bins bins
+// over [lo, hi) to p and restricts the axis's labelled ticks to [lo, hi].
+func addFlow(p *plot.Plot, lo, hi float64, bins, under, over int, unit string) {
+	span := hi - lo
+	f := flowBins{lo: lo, hi: hi, width: math.Max(0.06*span, 2*span/float64(bins)), gap: 0.03 * span, under: under, over: over, unit: unit}
+	p.Add(f)
+	b := f.bars()
+	p.X.Min, p.X.Max = b[0][0], b[1][1]
+	p.X.Tick.Marker = rangeTicks{lo: lo, hi: hi}
+	tidyAxes(p)
 }
 
 // newBars draws counts as a histogram of equal bins over [lo, hi].
@@ -147,6 +239,14 @@ func newBars(counts []float64, lo, hi float64) (*plotter.Histogram, error) {
 	h.FillColor = fillColour
 	h.LineStyle = draw.LineStyle{Color: lineColour, Width: vg.Points(0.6)}
 	return h, nil
+}
+
+// rangeTicks puts the default ticks over [lo, hi] only, whatever the
+// axis range, so that no number is written under the flow bins.
+type rangeTicks struct{ lo, hi float64 }
+
+func (r rangeTicks) Ticks(min, max float64) []plot.Tick {
+	return plot.DefaultTicks{}.Ticks(r.lo, r.hi)
 }
 
 // ProfileBin is one angular bin of a charge profile: the bin [Lo, Hi) in
@@ -277,7 +377,7 @@ func NewChargeProfilePlot(cfg ProfileConfig) (*plot.Plot, error) {
 		p.Add(l)
 		p.Legend.Add(fmt.Sprintf("Cherenkov angle %.1f°", a), l)
 	}
-	p.Legend.Top = true
 	p.X.Min, p.X.Max = 0, 180
+	tidyAxes(p)
 	return p, nil
 }

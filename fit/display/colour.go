@@ -19,6 +19,7 @@ var (
 	fillColour = color.RGBA{R: 150, G: 180, B: 215, A: 255}
 	lineColour = color.RGBA{R: 30, G: 60, B: 120, A: 255}
 	fitColour  = color.RGBA{R: 210, G: 60, B: 40, A: 255}
+	flowColour = color.RGBA{R: 190, G: 190, B: 190, A: 255}
 )
 
 // seriesColours are the colours of successive series in study plots.

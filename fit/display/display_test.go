@@ -16,6 +16,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 )
@@ -178,23 +179,6 @@ func TestChargeProfile(t *testing.T) {
 	}
 }
 
-func TestFraction(t *testing.T) {
-	// Wilson score interval at z = 1, closed form: k = 0, n = 4 gives
-	// centre 1/(2(n+1)) ... half-width sqrt(1/(4n^2))/(1+1/n) = 0.1.
-	e, err := Fraction(0, 4)
-	if err != nil || e.Value != 0 || math.Abs(e.Err-0.1) > 1e-12 {
-		t.Errorf("Fraction(0, 4) = %v, %v; want 0 +- 0.1", e, err)
-	}
-	// Large n: the normal approximation sqrt(p(1-p)/n) to 1e-3 relative.
-	e, _ = Fraction(300, 1000)
-	if want := math.Sqrt(0.3 * 0.7 / 1000); math.Abs(e.Err-want) > 1e-3*want {
-		t.Errorf("Fraction(300, 1000) error %g, want %g", e.Err, want)
-	}
-	if _, err := Fraction(5, 4); err == nil {
-		t.Error("k > n accepted")
-	}
-}
-
 // checkPNG decodes a PNG, checks its size and that it is not blank.
 func checkPNG(t *testing.T, r io.Reader, width, height vg.Length, minColours int) {
 	t.Helper()
@@ -316,10 +300,10 @@ func TestAnalysisPlotFiles(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f0, _ := Fraction(3, 100)
+	f0, _ := resolution.Proportion(3, 100)
 	er, err := NewErrorPlot(ErrorPlotConfig{Title: "resolution", XLabel: "E (MeV)", YLabel: "cm", LogX: true, YFromZero: true, Series: []Series{
 		{Name: "a", Points: []Point{{X: 10, Y: 30, Err: 2}, {X: 20, Y: 20, Err: 1.5}}},
-		{Name: "b", Points: []Point{{X: 10, Y: 35, Err: 2}, PointOf(20, f0)}},
+		{Name: "b", Points: []Point{{X: 10, Y: 35, Err: 2}, PointOfProportion(20, f0, 100)}},
 	}})
 	if err != nil {
 		t.Fatal(err)

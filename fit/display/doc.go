@@ -26,6 +26,28 @@
 // and (y, -H - g - R + x) at the bottom, g a small gap. Distances are true
 // in cm on the barrel and on the caps.
 //
+// # What a figure states
+//
+// Figures are meant to be read at a glance without being misread:
+//
+//   - Legends never lie on the data: a study plot's legend is drawn in a
+//     band between its title and its data area (Grid, which Save and
+//     Write also use for a single plot), the event display's below the
+//     tank.
+//   - Histograms do not fold values outside their range into the end
+//     bins: the underflow and overflow are drawn as grey bars apart from
+//     the range and labelled with what they hold and their count.
+//   - The event display's colour scale spans the bulk of the values
+//     (ColourScale); an end that clamps hits carries a triangle in its
+//     colour and a "≥ t" or "≤ t" label, and the legend counts those hits.
+//   - A fraction with nothing to measure on one side (0 of n, n of n) is
+//     a one-sided limit, drawn as a bar with an arrow into the allowed
+//     side, not a point with error bars (PointOfProportion with
+//     resolution.Proportion: Clopper-Pearson intervals and limits).
+//   - Tick labels of an axis share one number of decimals, the fewest
+//     that write them exactly; a logarithmic axis is labelled at the
+//     points' own X (the energies of a study).
+//
 // # Figures and files
 //
 // Every figure is a Figure (anything that draws itself on a draw.Canvas:

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/plot"
@@ -80,7 +81,8 @@ type EventConfig struct {
 }
 
 // EventDisplay is the picture of one event on the unrolled tank, with a
-// colour scale beside it. Build it with NewEventDisplay.
+// colour scale beside it and the legend below it. Build it with
+// NewEventDisplay.
 type EventDisplay struct {
 	main, scale *plot.Plot
 	u           Unrolled
@@ -88,6 +90,22 @@ type EventDisplay struct {
 	// it crosses from one surface to another or the barrel cut; nil without
 	// a track.
 	Ring []plotter.XYs
+	// Scale is the colour scale of the hits.
+	Scale ColourScale
+}
+
+// ColourScale is the range of the hit colours and what lies beyond it.
+// The scale spans the bulk of the values, so that late dark and
+// scattered-light hits or one bright sensor do not wash out the rest:
+// times from the 2% to the 75% quantile, charges from 0 to the 98% one.
+// Hits beyond an end are drawn in that end's colour; the scale marks an
+// end that clamps hits with a triangle and a "<=" or ">=" label, and the
+// legend counts them.
+type ColourScale struct {
+	Min, Max float64
+	// Below and Above count the hits drawn in the end colours because
+	// their value is beyond Min or Max.
+	Below, Above int
 }
 
 // NewEventDisplay builds the event display described by cfg.
@@ -111,8 +129,9 @@ func NewEventDisplay(cfg EventConfig) (*EventDisplay, error) {
 	p.Title.Text = cfg.Title
 	p.X.Label.Text = "barrel: arc length R·φ (cm); caps: unfolded at φ = 0"
 	p.Y.Label.Text = "z (cm)"
-	p.Legend.Top, p.Legend.Left = true, true
-	p.Legend.TextStyle.Font.Size = vg.Points(8)
+	p.Legend.TextStyle.Font.Size = vg.Points(9)
+	p.Legend.Padding = vg.Points(2)
+	tidyAxes(p)
 	p.Add(surfaces{u})
 
 	sensors := d.Sensors()
@@ -177,20 +196,28 @@ func (e *EventDisplay) addHits(cfg EventConfig, sensors []geom.Sensor) error {
 			vals[i] = h.Charge
 		}
 	}
-	// The scale spans the bulk of the values, so that late dark and
-	// scattered-light hits or one bright sensor do not wash out the rest:
-	// times from the 2% to the 75% quantile, charges up to the 98% one
-	// (values beyond are drawn in the end colours).
 	s := append([]float64(nil), vals...)
 	sort.Float64s(s)
 	lo, hi := s[int(0.02*float64(len(s)-1))], s[int(0.75*float64(len(s)-1))]
-	unit := "hit time (ns)"
+	unit, name := "ns", "hit time"
 	if cfg.ColorBy == ByCharge {
 		lo, hi = 0, s[int(0.98*float64(len(s)-1))]
-		unit = "hit charge (pe)"
+		unit, name = "pe", "hit charge"
 	}
 	if !(hi > lo) {
 		hi = lo + 1
+	}
+	// Round the ends outwards to a tenth of the range's decade, so that
+	// they read as plain numbers.
+	step := math.Pow(10, math.Floor(math.Log10((hi-lo)/10)))
+	lo, hi = math.Floor(lo/step)*step, math.Ceil(hi/step)*step
+	e.Scale = ColourScale{Min: lo, Max: hi}
+	for _, v := range vals {
+		if v < lo {
+			e.Scale.Below++
+		} else if v > hi {
+			e.Scale.Above++
+		}
 	}
 	ramp := NewRamp(lo, hi)
 	xy := make(plotter.XYs, len(hits))
@@ -208,12 +235,110 @@ func (e *EventDisplay) addHits(cfg EventConfig, sensors []geom.Sensor) error {
 	}
 	e.main.Add(sc)
 	e.main.Legend.Add(fmt.Sprintf("%d hits (marker size grows with charge)", len(hits)), sc)
+	dec := decimals([]float64{lo, hi})
+	if e.Scale.Below > 0 || e.Scale.Above > 0 {
+		var parts []string
+		if e.Scale.Above > 0 {
+			parts = append(parts, fmt.Sprintf("%d hits with %s ≥ %s %s", e.Scale.Above, name, formatTick(hi, dec), unit))
+		}
+		if e.Scale.Below > 0 {
+			parts = append(parts, fmt.Sprintf("%d with %s ≤ %s %s", e.Scale.Below, name, formatTick(lo, dec), unit))
+		}
+		e.main.Legend.Add(strings.Join(parts, ", ")+": drawn in the end colours of the scale", clampThumb{ramp: ramp, below: e.Scale.Below > 0, above: e.Scale.Above > 0})
+	}
 
 	e.scale.Add(&plotter.ColorBar{ColorMap: ramp, Vertical: true, Colors: 64})
+	ext := 0.07 * (hi - lo)
+	caps := clampCaps{ramp: ramp, ext: ext, below: e.Scale.Below > 0, above: e.Scale.Above > 0}
+	e.scale.Add(caps)
 	e.scale.HideX()
-	e.scale.Y.Label.Text = unit
+	e.scale.Y.Label.Text = name + " (" + unit + ")"
 	e.scale.Y.Min, e.scale.Y.Max = lo, hi
+	if caps.below {
+		e.scale.Y.Min = lo - ext
+	}
+	if caps.above {
+		e.scale.Y.Max = hi + ext
+	}
+	e.scale.Y.Tick.Marker = caps
 	return nil
+}
+
+// clampCaps draws a triangle in the end colour beyond each end of the
+// colour bar that clamps values, and labels the ends "≤ min" and "≥ max".
+type clampCaps struct {
+	ramp         *Ramp
+	ext          float64
+	below, above bool
+}
+
+func (k clampCaps) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	x0, x1 := trX(0), trX(1)
+	for _, end := range []struct {
+		on      bool
+		base, y float64
+	}{{k.below, k.ramp.Min(), k.ramp.Min() - k.ext}, {k.above, k.ramp.Max(), k.ramp.Max() + k.ext}} {
+		if !end.on {
+			continue
+		}
+		var t vg.Path
+		t.Move(vg.Point{X: x0, Y: trY(end.base)})
+		t.Line(vg.Point{X: x1, Y: trY(end.base)})
+		t.Line(vg.Point{X: (x0 + x1) / 2, Y: trY(end.y)})
+		t.Close()
+		c.SetColor(k.ramp.Clamped(end.base))
+		c.Fill(t)
+	}
+}
+
+// Ticks labels the scale: tidy ticks inside, the clamping ends marked.
+func (k clampCaps) Ticks(min, max float64) []plot.Tick {
+	lo, hi := k.ramp.Min(), k.ramp.Max()
+	var ts []plot.Tick
+	for _, t := range (tidyTicks{plot.DefaultTicks{}}).Ticks(lo, hi) {
+		if t.Value < lo || t.Value > hi || (t.Label != "" && ((k.below && t.Value-lo < 1.5*k.ext) || (k.above && hi-t.Value < 1.5*k.ext))) {
+			continue
+		}
+		ts = append(ts, t)
+	}
+	dec := decimals([]float64{lo, hi})
+	if k.below {
+		ts = append(ts, plot.Tick{Value: lo, Label: "≤ " + formatTick(lo, dec)})
+	}
+	if k.above {
+		ts = append(ts, plot.Tick{Value: hi, Label: "≥ " + formatTick(hi, dec)})
+	}
+	return ts
+}
+
+// clampThumb is the legend icon of the clamped hits: the end colours
+// that clamp, side by side.
+type clampThumb struct {
+	ramp         *Ramp
+	below, above bool
+}
+
+func (t clampThumb) Thumbnail(c *draw.Canvas) {
+	var ends []float64
+	if t.below {
+		ends = append(ends, t.ramp.Min())
+	}
+	if t.above {
+		ends = append(ends, t.ramp.Max())
+	}
+	w := (c.Max.X - c.Min.X) / vg.Length(max(1, len(ends)))
+	for i, v := range ends {
+		x := c.Min.X + vg.Length(i)*w
+		var r vg.Path
+		r.Move(vg.Point{X: x, Y: c.Min.Y})
+		r.Line(vg.Point{X: x + w, Y: c.Min.Y})
+		r.Line(vg.Point{X: x + w, Y: c.Max.Y})
+		r.Line(vg.Point{X: x, Y: c.Max.Y})
+		r.Close()
+		c.SetColor(t.ramp.Clamped(v))
+		c.Fill(r)
+	}
 }
 
 func (e *EventDisplay) addTrack(d *geom.Detector, tr Track, n int) error {
@@ -354,9 +479,9 @@ func (s surfaces) Plot(c draw.Canvas, p *plot.Plot) {
 }
 
 // Draw draws the display on c: the unrolled tank at equal scale in x and
-// y, the colour scale on the right.
+// y, the colour scale on the right and the legend below, off the tank.
 func (e *EventDisplay) Draw(c draw.Canvas) {
-	barW := vg.Inch
+	barW := 1.2 * vg.Inch
 	if c.Max.X-c.Min.X < 4*barW {
 		barW = (c.Max.X - c.Min.X) / 4
 	}
@@ -366,10 +491,14 @@ func (e *EventDisplay) Draw(c draw.Canvas) {
 	h := c.Max.Y - c.Min.Y
 	barC.Min.Y += 0.2 * h
 	barC.Max.Y -= 0.2 * h
+	band := legendHeight(&e.main.Legend, c)
+	if band > 0 {
+		mainC.Min.Y += band + legendGap
+	}
 
 	// Equal scale: widen whichever range leaves room in the data area.
 	xmin, xmax, ymin, ymax := e.u.Extent()
-	p := e.main
+	p := withoutLegend(e.main)
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = xmin, xmax, ymin, ymax
 	dc := p.DataCanvas(mainC)
 	dw, dh := float64(dc.Max.X-dc.Min.X), float64(dc.Max.Y-dc.Min.Y)
@@ -380,6 +509,12 @@ func (e *EventDisplay) Draw(c draw.Canvas) {
 		p.Y.Min, p.Y.Max = cy-dh/scale/2, cy+dh/scale/2
 	}
 	p.Draw(mainC)
+	if band > 0 {
+		l := e.main.Legend
+		l.Top, l.Left, l.XOffs, l.YOffs = true, true, 0, 0
+		l.Draw(draw.Canvas{Canvas: c.Canvas, Rectangle: vg.Rectangle{
+			Min: vg.Point{X: dc.Min.X, Y: c.Min.Y}, Max: vg.Point{X: c.Max.X, Y: c.Min.Y + band}}})
+	}
 	if len(e.scale.Y.Label.Text) > 0 {
 		e.scale.Draw(barC)
 	}

@@ -4,14 +4,16 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 // PNGDPI is the resolution of PNG files: a figure of width w (vg.Length)
@@ -70,6 +72,9 @@ func Write(w io.Writer, f Figure, width, height vg.Length, format Format) error 
 	if err := checkSize(width, height); err != nil {
 		return err
 	}
+	if p, ok := f.(*plot.Plot); ok {
+		f = Grid{Rows: 1, Cols: 1, Plots: []*plot.Plot{p}} // legend off the data
+	}
 	switch format {
 	case PNG:
 		c := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(PNGDPI), vgimg.UseBackgroundColor(paper))
@@ -91,29 +96,10 @@ func Write(w io.Writer, f Figure, width, height vg.Length, format Format) error 
 // Save writes f to path as PNG or SVG (by the extension) atomically: the
 // figure is written to a temporary file in the same directory, which is
 // renamed to path when complete; on error nothing is left under path.
-func Save(path string, f Figure, width, height vg.Length) (err error) {
+func Save(path string, f Figure, width, height vg.Length) error {
 	format, err := FormatOf(path)
 	if err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if err = tmp.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = Write(tmp, f, width, height, format); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+	return safefile.Write(path, func(w io.Writer) error { return Write(w, f, width, height, format) })
 }

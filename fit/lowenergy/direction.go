@@ -17,10 +17,13 @@ const dirHessianStep = 0.03
 
 // fitDirection maximizes the likelihood of the cosines between the track
 // direction and the vertex-to-hit vectors of the prompt hits. It returns
-// the direction, its per-axis angular uncertainty and the
-// log-likelihood. Without enough prompt hits the direction is the mean
-// hit direction with an uncertainty of pi (no information).
-func (f *Fitter) fitDirection(sc *scratch, x candidate) (r3.Vector, float64, float64) {
+// the direction, the uncertainties of the two angles along the axes of
+// phys.Basis of the direction, whether they come from a positive definite
+// curvature, and the log-likelihood. Without enough prompt hits, or
+// without a positive definite curvature, the direction is the best one
+// found and the uncertainties are pi (no information).
+func (f *Fitter) fitDirection(sc *scratch, x candidate) (dir r3.Vector, angleErr [2]float64, ok bool, logL float64) {
+	noInfo := [2]float64{math.Pi, math.Pi}
 	units := sc.units[:0]
 	var mean r3.Vector
 	for _, i := range sc.prompt {
@@ -33,7 +36,7 @@ func (f *Fitter) fitDirection(sc *scratch, x candidate) (r3.Vector, float64, flo
 		if mean.Norm() == 0 {
 			mean = r3.Vector{Z: 1}
 		}
-		return mean.Normalize(), math.Pi, 0
+		return mean.Normalize(), noInfo, false, 0
 	}
 	eps := math.Min(math.Max(f.darkPerNs*(f.promptHi-f.promptLo)/float64(len(units)), minDarkFraction), 0.95)
 	sc.logDir.fillGrid(&f.dirDensity, eps, 0.5)
@@ -64,7 +67,7 @@ func (f *Fitter) fitDirection(sc *scratch, x candidate) (r3.Vector, float64, flo
 		Runtime:         f.maxDur,
 		Converger:       &optimize.FunctionConverge{Absolute: 1e-6, Iterations: 30},
 	}
-	dir := seed
+	dir = seed
 	if r, err := optimize.Minimize(p, []float64{0, 0}, settings, &optimize.NelderMead{SimplexSize: 0.1}); err == nil || r != nil {
 		if r != nil && r.F < best && finiteSlice(r.X) {
 			dir, best = tangent(seed, r.X[0], r.X[1]), r.F
@@ -75,9 +78,9 @@ func (f *Fitter) fitDirection(sc *scratch, x candidate) (r3.Vector, float64, flo
 	fd.Hessian(h, func(ab []float64) float64 { return nll(tangent(dir, ab[0], ab[1])) }, []float64{0, 0},
 		&fd.Settings{Formula: fd.Central, Step: dirHessianStep})
 	var cov [2][2]float64
-	errDir := math.Pi
-	if invertSym(mat.DenseCopyOf(h), [][]float64{cov[0][:], cov[1][:]}) {
-		errDir = math.Min(math.Sqrt(0.5*(cov[0][0]+cov[1][1])), math.Pi)
+	if !invertSym(mat.DenseCopyOf(h), [][]float64{cov[0][:], cov[1][:]}) {
+		return dir, noInfo, false, -best
 	}
-	return dir, errDir, -best
+	angleErr = [2]float64{math.Min(math.Sqrt(cov[0][0]), math.Pi), math.Min(math.Sqrt(cov[1][1]), math.Pi)}
+	return dir, angleErr, true, -best
 }

@@ -1,17 +1,23 @@
-// Package fit reconstructs low-energy events (electron-like, a few MeV to
-// about 100 MeV, light from a short, nearly point-like track) in a
+// Package lowenergy reconstructs low-energy events (electron-like, a few
+// MeV to about 100 MeV, light from a short, nearly point-like track) in a
 // water-Cherenkov tank by maximum likelihood: vertex, time, direction and
-// kinetic energy with their uncertainties. It works on hits alone, with
-// the detector description (geom), the sensor model (pmt) and the water
-// optics (sim/optics); it never looks at simulation truth, so it serves
-// real data as well. Units: cm, ns, MeV, radians (wavelengths in nm).
+// kinetic energy (a fit.Track) with their uncertainties (fit.Errors). It
+// works on hits alone, with the detector description (setup.Setup: tank
+// and sensors, sensor model, water optics, liner, dead sensors); it never
+// looks at simulation truth, so it serves real data as well. The valid
+// kinetic-energy range is that of the energy calibration,
+// Fitter.EkinRange. Units: cm, ns, MeV, radians (wavelengths in nm).
+//
+// Hits are checked with fit.CheckHits; a malformed hit is an error (and
+// Status fit.BadInput). Hits on the dead sensors of the Setup are left
+// out and counted.
 //
 // # Method
 //
-// Hit selection. The hits inside the window of length (tank diagonal)/v_g
-// + 100 ns holding the most hits are kept: all signal hits of a vertex
-// inside the tank fall in it. The expected dark fraction of the selection
-// is NumSensors x DarkRate x window / (selected hits).
+// Hit selection. Of the hits of live sensors, those inside the window of
+// length (tank diagonal)/v_g + 100 ns holding the most hits are kept: all
+// signal hits of a vertex inside the tank fall in it. The expected dark fraction of the selection
+// is (live sensors) x DarkRate x window / (selected hits).
 //
 // Vertex and time. The time likelihood is sum_i log f(t_i - t0 - |x_i -
 // v| / v_g) with v_g the mean group velocity of the detected Cherenkov
@@ -34,24 +40,30 @@
 // Cramer-Rao bound of the vertex for the event's hits is the inverse of
 // the Fisher information I_f sum_i g_i g_i^T, with I_f the Fisher
 // information of the residual density's location and g_i the gradient of
-// residual i. Goodness is the standardized log-likelihood.
+// residual i. A maximum whose curvature is not positive definite is no
+// proper maximum: the fit is then fit.NotConverged. Goodness is the
+// standardized log-likelihood.
 //
 // Direction. The likelihood of the cosines between the track direction
 // and the vertex-to-hit vectors of the prompt hits (residual inside
 // PromptWindow), under the tabulated cosine density (peaked near the
 // Cherenkov angle) with a flat dark part, maximized over the two angles
 // (a uniform set of 200 seed directions and the mean hit direction, then
-// Nelder-Mead in the tangent plane); its curvature gives DirErr.
+// Nelder-Mead in the tangent plane); its curvature gives the errors of
+// the two angles along the axes of phys.Basis of the fitted direction
+// (pi, no information, when it is not positive definite:
+// Result.ErrorsValid is then false).
 //
 // Energy. The effective hit count sums over prompt hits the occupancy
 // correction -ln(1-x)/x (x the fraction of hit sensors among the sensor
-// and its neighbours within 2.5 pitches), the inverse mean transmission
-// of the light path (absorption and scattering over the detected
-// spectrum) and the inverse angular acceptance at the incidence angle,
-// subtracts the expected dark hits of the prompt window, and divides by
-// the photocathode coverage and the mean spectral efficiency: it
-// estimates the Cherenkov photons emitted in the band, so one calibration
-// serves sensors of other coverage and efficiency. The tabulated
+// and its live neighbours within 2.5 pitches), the inverse mean
+// transmission of the light path (absorption and scattering over the
+// detected spectrum) and the inverse angular acceptance at the incidence
+// angle, subtracts the expected dark hits of the prompt window, and
+// divides by the photocathode coverage of the live sensors and the mean
+// spectral efficiency: it estimates the Cherenkov photons emitted in the
+// band, so one calibration serves sensors of other coverage and
+// efficiency, and a detector with dead sensors. The tabulated
 // calibration maps it to kinetic energy, gives the energy spread and the
 // shift of the light-weighted vertex ahead of the track start, by which
 // the vertex is moved back along the fitted direction (Result.Shift).
@@ -73,15 +85,16 @@
 //
 //	go generate ./fit/lowenergy
 //
-// which runs fit/lowenergy/internal/gentables for each set; see that command for
-// its flags and samples. Users may also fill Tables from their own
-// calibration and pass them in Config.
+// which runs fit/lowenergy/internal/gentables for each set; see that
+// command for its flags and samples. Users may also fill Tables from their
+// own calibration and pass them in Config. The liner is not modelled
+// apart: the light it reflects arrives late and is part of the residual
+// table's tail, for the liner the tables were made with.
 //
 // # Concurrency
 //
 // A Fitter is immutable after New and safe for concurrent use by any
-// number of goroutines; each Fit takes its scratch space from a pool
-// inside the Fitter.
+// number of goroutines; per-call scratch is pooled.
 //
 // Package fit/resolution computes resolution summaries (bias, 68%
 // quantiles, Gaussian-core energy resolution, each with its statistical

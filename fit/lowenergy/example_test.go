@@ -9,6 +9,7 @@ import (
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // Fit a simulated 10 MeV electron in the demo tank.
@@ -26,7 +27,7 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -35,12 +36,30 @@ func Example() {
 		log.Fatal(err)
 	}
 	fmt.Println("status:", r.Status)
-	fmt.Println("vertex within 1 m:", r.Vertex.Sub(start).Norm() < 100)
-	fmt.Println("direction within 60 degrees:", r.Dir.Angle(r3.Vector{X: 1}).Degrees() < 60)
-	fmt.Println("energy within 5-15 MeV:", r.Energy > 5 && r.Energy < 15)
+	fmt.Println("vertex within 1 m:", r.Track.Vertex.Sub(start).Norm() < 100)
+	fmt.Println("direction within 60 degrees:", r.Track.Dir.Angle(r3.Vector{X: 1}).Degrees() < 60)
+	fmt.Println("energy within 5-15 MeV:", r.Track.Ekin > 5 && r.Track.Ekin < 15)
 	// Output:
 	// status: converged
 	// vertex within 1 m: true
 	// direction within 60 degrees: true
 	// energy within 5-15 MeV: true
+}
+
+// Build a fitter from the demo detector description, with two sensors out
+// of service, and ask for the energy range its calibration covers.
+func ExampleFitter_EkinRange() {
+	s, err := setup.Demo()
+	if err != nil {
+		log.Fatal(err)
+	}
+	s.Dead = []int{12, 345}
+	f, err := lowenergy.New(lowenergy.Config{Setup: s})
+	if err != nil {
+		log.Fatal(err)
+	}
+	lo, hi := f.EkinRange()
+	fmt.Printf("tables %q, calibrated from %g to %g MeV\n", f.Tables().Name, lo, hi)
+	// Output:
+	// tables "demo", calibrated from 3 to 100 MeV
 }

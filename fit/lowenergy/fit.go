@@ -11,6 +11,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -59,26 +60,31 @@ func newScratch(nSensors int) *scratch {
 }
 
 // Fit reconstructs the vertex, time, direction and energy of one event
-// from its hits. Hits with a sensor index outside the detector or a
-// non-finite time or charge make Fit return an error (and a Result with
-// Status BadInput naming the hit). Events that cannot be fitted (no hits,
-// too few hits or sensors) return a Result with Converged false and the
-// reason, and a nil error. The hits are not modified.
+// from its hits. Hits that fail fit.CheckHits (a sensor index outside the
+// detector, a non-finite time, a charge not finite and positive, two hits
+// of one sensor within its integration gate) make Fit return an error and
+// a Result with Status fit.BadInput and the error as Reason. Hits on dead
+// sensors are left out and counted (Result.DeadHits). Events that cannot
+// be fitted (no hits, too few hits or sensors) return a Result with that
+// Status and the reason, and a nil error. The hits are not modified.
 func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	if err := f.checkHits(hits); err != nil {
-		return Result{Hits: len(hits), Status: BadInput, Reason: err.Error()}, err
+		return Result{Hits: len(hits), Status: fit.BadInput, Reason: err.Error()}, err
 	}
 	res := Result{Hits: len(hits)}
 	if len(hits) == 0 {
-		return failed(res, NoHits, "the event has no hits"), nil
+		return failed(res, fit.NoHits, "the event has no hits"), nil
 	}
 	sc := f.pool.Get().(*scratch)
 	defer f.pool.Put(sc)
 	sc.evals = 0
-	f.selectHits(sc, hits)
+	res.DeadHits = f.selectHits(sc, hits)
+	if res.DeadHits == len(hits) {
+		return failed(res, fit.NoHits, fmt.Sprintf("all %d hits are on dead sensors", len(hits))), nil
+	}
 	res.Selected = len(sc.sel)
 	if len(sc.sel) < minHits {
-		return failed(res, TooFewHits, fmt.Sprintf("%d hits in the selection window, need at least %d", len(sc.sel), minHits)), nil
+		return failed(res, fit.TooFewHits, fmt.Sprintf("%d hits in the selection window, need at least %d", len(sc.sel), minHits)), nil
 	}
 	distinct := 0
 	for _, h := range sc.sel {
@@ -89,7 +95,7 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	}
 	f.clearFlags(sc)
 	if distinct < minHits {
-		return failed(res, TooFewSensors, fmt.Sprintf("selected hits on %d distinct sensors, need at least %d", distinct, minHits)), nil
+		return failed(res, fit.TooFewSensors, fmt.Sprintf("selected hits on %d distinct sensors, need at least %d", distinct, minHits)), nil
 	}
 	f.setDark(sc)
 	res.DarkFraction = sc.eps
@@ -104,16 +110,19 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 			x, status, reason = y, st, why
 		}
 	}
-	// Uncertainties from the curvature of -log L at the maximum.
+	// Uncertainties from the curvature of -log L at the maximum. Without
+	// a positive definite curvature the point is no proper maximum.
 	cov, ok := f.vertexCovariance(sc, x)
-	if !ok && status == Converged {
-		status, reason = BadCurvature, "the curvature of the time likelihood is not positive definite at the maximum"
+	if !ok && status == fit.Converged {
+		status, reason = fit.NotConverged, "the curvature of the time likelihood is not positive definite at the maximum"
 	}
 	f.promptHits(sc, x)
-	dir, dirErr, dirLogL := f.fitDirection(sc, x)
-	res.Vertex = x.q.Mul(f.vg)
-	res.Time = x.t0
-	res.Dir, res.DirErr = dir, dirErr
+	dir, angleErr, dirOK, dirLogL := f.fitDirection(sc, x)
+	tr := &res.Track
+	tr.Vertex = x.q.Mul(f.vg)
+	tr.Time = x.t0
+	tr.Dir = dir
+	res.Errors.Angle = angleErr
 	res.LogLikelihood = -f.nll(sc, x.q, x.t0)
 	if ok {
 		scale := [4]float64{f.vg, f.vg, f.vg, 1}
@@ -122,8 +131,8 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 				res.Cov[i][j] = cov[i][j] * scale[i] * scale[j]
 			}
 		}
-		res.VertexErr = r3.Vector{X: math.Sqrt(res.Cov[0][0]), Y: math.Sqrt(res.Cov[1][1]), Z: math.Sqrt(res.Cov[2][2])}
-		res.TimeErr = math.Sqrt(res.Cov[3][3])
+		res.Errors.Vertex = r3.Vector{X: math.Sqrt(res.Cov[0][0]), Y: math.Sqrt(res.Cov[1][1]), Z: math.Sqrt(res.Cov[2][2])}
+		res.Errors.Time = math.Sqrt(res.Cov[3][3])
 	}
 	meanLog, varLog, fisher := f.res.stats(sc.eps)
 	nSel := float64(len(sc.sel))
@@ -133,31 +142,35 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	res.DirLogLikelihood = dirLogL
 	res.Prompt = len(sc.prompt)
 	res.Neff = f.effectiveHits(sc, x)
-	res.Energy, res.EnergyErr, res.Shift = f.energyFromNeff(res.Neff)
+	tr.Ekin, res.Errors.Ekin, res.Shift = f.energyFromNeff(res.Neff)
 	// The fitted point is the light-weighted centre of the track; move it
 	// back to the track start by the calibrated shift at this energy.
-	res.Vertex = res.Vertex.Sub(res.Dir.Mul(res.Shift))
-	res.Time -= res.Shift / phys.SpeedOfLight
+	tr.Vertex = tr.Vertex.Sub(tr.Dir.Mul(res.Shift))
+	tr.Time -= res.Shift / phys.SpeedOfLight
 	res.Evaluations = sc.evals
 
-	if status == Converged && !finiteResult(&res) {
-		status, reason = NotConverged, "a fitted value or uncertainty is not finite"
+	if status == fit.Converged && !finiteResult(&res) {
+		status, reason = fit.NotConverged, "a fitted value or uncertainty is not finite"
+	}
+	res.ErrorsValid = ok && dirOK
+	if status == fit.Converged && !dirOK {
+		reason = "the curvature of the direction likelihood is not positive definite (too few prompt hits or a flat maximum): the angle errors are pi"
 	}
 	res.Status, res.Reason = status, reason
-	res.Converged = status == Converged
 	return res, nil
 }
 
-func failed(r Result, s Status, reason string) Result {
-	r.Status, r.Reason, r.Converged = s, reason, false
+func failed(r Result, s fit.Status, reason string) Result {
+	r.Status, r.Reason = s, reason
 	return r
 }
 
 func finiteResult(r *Result) bool {
+	t, e := &r.Track, &r.Errors
 	vals := []float64{
-		r.Vertex.X, r.Vertex.Y, r.Vertex.Z, r.Time, r.VertexErr.X, r.VertexErr.Y, r.VertexErr.Z, r.TimeErr,
-		r.Dir.X, r.Dir.Y, r.Dir.Z, r.DirErr, r.Energy, r.EnergyErr, r.Neff, r.LogLikelihood, r.DirLogLikelihood,
-		r.Goodness, r.VertexCRB.X, r.VertexCRB.Y, r.VertexCRB.Z,
+		t.Vertex.X, t.Vertex.Y, t.Vertex.Z, t.Time, t.Dir.X, t.Dir.Y, t.Dir.Z, t.Ekin,
+		e.Vertex.X, e.Vertex.Y, e.Vertex.Z, e.Time, e.Angle[0], e.Angle[1], e.Ekin,
+		r.Neff, r.LogLikelihood, r.DirLogLikelihood, r.Goodness, r.VertexCRB.X, r.VertexCRB.Y, r.VertexCRB.Z,
 	}
 	for _, v := range vals {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -173,11 +186,19 @@ func (f *Fitter) clearFlags(sc *scratch) {
 	}
 }
 
-// selectHits keeps the hits in the window of length selWindow that holds
-// the most hits: all signal hits of an event inside the tank fall within
-// it, and dark hits outside it are dropped.
-func (f *Fitter) selectHits(sc *scratch, hits []pmt.Hit) {
-	sc.sorted = append(sc.sorted[:0], hits...)
+// selectHits keeps the hits of live sensors in the window of length
+// selWindow that holds the most of them: all signal hits of an event
+// inside the tank fall within it, and dark hits outside it are dropped.
+// It returns the number of hits on dead sensors.
+func (f *Fitter) selectHits(sc *scratch, hits []pmt.Hit) (dead int) {
+	sc.sorted = sc.sorted[:0]
+	for _, h := range hits {
+		if f.dead[h.Sensor] {
+			dead++
+			continue
+		}
+		sc.sorted = append(sc.sorted, h)
+	}
 	slices.SortFunc(sc.sorted, func(a, b pmt.Hit) int { return cmp.Compare(a.Time, b.Time) })
 	bestStart, bestCount := 0, 0
 	j := 0
@@ -193,6 +214,7 @@ func (f *Fitter) selectHits(sc *scratch, hits []pmt.Hit) {
 	for _, h := range sc.sorted[bestStart : bestStart+bestCount] {
 		sc.sel = append(sc.sel, selHit{s: f.scaled[h.Sensor], t: h.Time, sensor: int32(h.Sensor)})
 	}
+	return dead
 }
 
 // nll is -log L of the time residuals at the scaled vertex q and time t0.
@@ -359,7 +381,7 @@ func (f *Fitter) seed(sc *scratch) candidate {
 
 // maximizeVertex runs BFGS with the analytic gradient from the seed, and
 // Nelder-Mead from the best point if BFGS fails.
-func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status, string) {
+func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, fit.Status, string) {
 	p := optimize.Problem{
 		Func: func(x []float64) float64 {
 			return f.nll(sc, r3.Vector{X: x[0], Y: x[1], Z: x[2]}, x[3])
@@ -381,7 +403,7 @@ func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status
 		bestX, bestF = r.X, r.F
 	}
 	if err == nil && r != nil && (r.Status == optimize.GradientThreshold || r.Status == optimize.FunctionConvergence) {
-		return candidate{q: r3.Vector{X: bestX[0], Y: bestX[1], Z: bestX[2]}, t0: bestX[3], score: bestF}, Converged, ""
+		return candidate{q: r3.Vector{X: bestX[0], Y: bestX[1], Z: bestX[2]}, t0: bestX[3], score: bestF}, fit.Converged, ""
 	}
 	nm := &optimize.NelderMead{SimplexSize: 0.5}
 	settings = &optimize.Settings{
@@ -395,7 +417,7 @@ func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status
 	}
 	c := candidate{q: r3.Vector{X: bestX[0], Y: bestX[1], Z: bestX[2]}, t0: bestX[3], score: bestF}
 	if err2 == nil && r2 != nil && r2.Status == optimize.FunctionConvergence {
-		return c, Converged, ""
+		return c, fit.Converged, ""
 	}
 	reason := "the vertex optimizer did not converge"
 	if err2 != nil {
@@ -403,7 +425,7 @@ func (f *Fitter) maximizeVertex(sc *scratch, start candidate) (candidate, Status
 	} else if r2 != nil {
 		reason += ": " + r2.Status.String()
 	}
-	return c, NotConverged, reason
+	return c, fit.NotConverged, reason
 }
 
 func finiteSlice(x []float64) bool {
@@ -503,8 +525,9 @@ func (f *Fitter) promptHits(sc *scratch, x candidate) {
 
 // TimeLogLikelihood returns the time log-likelihood of the hits at vertex
 // v (cm) and time t0 (ns), with the hit selection and dark fraction Fit
-// uses: the quantity Fit maximizes. It returns an error for bad hits or
-// fewer than five selected hits.
+// uses (hits on dead sensors left out): the quantity Fit maximizes. It
+// returns an error for hits that fail fit.CheckHits or fewer than five
+// selected hits.
 func (f *Fitter) TimeLogLikelihood(hits []pmt.Hit, v r3.Vector, t0 float64) (float64, error) {
 	if err := f.checkHits(hits); err != nil {
 		return 0, err
@@ -513,7 +536,7 @@ func (f *Fitter) TimeLogLikelihood(hits []pmt.Hit, v r3.Vector, t0 float64) (flo
 	defer f.pool.Put(sc)
 	f.selectHits(sc, hits)
 	if len(sc.sel) < minHits {
-		return 0, fmt.Errorf("fit: %d hits in the selection window, need at least %d", len(sc.sel), minHits)
+		return 0, fmt.Errorf("lowenergy: %d hits in the selection window, need at least %d", len(sc.sel), minHits)
 	}
 	f.setDark(sc)
 	return -f.nll(sc, v.Mul(1/f.vg), t0), nil
@@ -524,19 +547,10 @@ func (f *Fitter) darkFraction(n int) float64 {
 	return math.Min(math.Max(f.darkPerNs*f.selWindow/float64(n), minDarkFraction), 0.95)
 }
 
-// checkHits returns an error naming the first hit with a sensor index
-// outside the detector or a non-finite time or charge.
+// checkHits applies fit.CheckHits with the sensor's integration gate.
 func (f *Fitter) checkHits(hits []pmt.Hit) error {
-	n := len(f.pos)
-	for i, h := range hits {
-		switch {
-		case h.Sensor < 0 || h.Sensor >= n:
-			return fmt.Errorf("fit: hits[%d].Sensor = %d outside the detector's [0, %d)", i, h.Sensor, n)
-		case math.IsNaN(h.Time) || math.IsInf(h.Time, 0):
-			return fmt.Errorf("fit: hits[%d].Time = %v must be finite", i, h.Time)
-		case math.IsNaN(h.Charge) || math.IsInf(h.Charge, 0):
-			return fmt.Errorf("fit: hits[%d].Charge = %v must be finite", i, h.Charge)
-		}
+	if err := fit.CheckHits(hits, len(f.pos), f.sensor.IntegrationWindow); err != nil {
+		return fmt.Errorf("lowenergy: %w", err)
 	}
 	return nil
 }

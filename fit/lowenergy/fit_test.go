@@ -1,14 +1,18 @@
 package lowenergy_test
 
 import (
+	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
+	"sort"
 	"strings"
 	"sync"
 	"testing"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/geom"
@@ -20,7 +24,9 @@ import (
 // synthetic draws an event from the fitter's own model: n signal hits on
 // sensors drawn uniformly, at times t0 + |x - v| / v_g + r with r from the
 // residual table smeared by the sensor's TTS, plus dark hits at the
-// sensor's dark rate over [t0-500, t0+1000] ns.
+// sensor's dark rate over [t0-500, t0+1000] ns. As the digitizer does
+// (pmt.Digitize), a hit within the integration gate of an earlier hit of
+// its sensor adds its charge to that hit.
 func synthetic(rng *rand.Rand, f *lowenergy.Fitter, det *geom.Detector, m pmt.Model, v r3.Vector, t0 float64, n int) []pmt.Hit {
 	bins := f.Tables().Residual
 	cum := make([]float64, len(bins))
@@ -46,7 +52,35 @@ func synthetic(rng *rand.Rand, f *lowenergy.Fitter, det *geom.Detector, m pmt.Mo
 	for range nDark {
 		hits = append(hits, pmt.Hit{Sensor: rng.IntN(det.NumSensors()), Time: t0 - 500 + rng.Float64()*span, Charge: 1})
 	}
-	return hits
+	return gated(hits, m.IntegrationWindow)
+}
+
+// gated merges each hit within gate ns after an earlier kept hit of its
+// sensor into that hit, keeping the order of the kept hits.
+func gated(hits []pmt.Hit, gate float64) []pmt.Hit {
+	order := make([]int, len(hits))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return hits[order[a]].Time < hits[order[b]].Time })
+	open := map[int]int{} // sensor -> index of its last kept hit
+	keep := make([]bool, len(hits))
+	for _, i := range order {
+		h := hits[i]
+		if k, ok := open[h.Sensor]; ok && h.Time-hits[k].Time < gate {
+			hits[k].Charge += h.Charge
+			continue
+		}
+		open[h.Sensor] = i
+		keep[i] = true
+	}
+	var out []pmt.Hit
+	for i, h := range hits {
+		if keep[i] {
+			out = append(out, h)
+		}
+	}
+	return out
 }
 
 // On events drawn from the likelihood's own density the time fit is
@@ -67,12 +101,12 @@ func TestSelfConsistency(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			t.Fatalf("synthetic event not converged: %v %s", r.Status, r.Reason)
 		}
 		// Compare the maximum of the likelihood, before the track-start shift.
-		d := r.Vertex.Add(r.Dir.Mul(r.Shift)).Sub(p.Pos)
-		for _, c := range [][3]float64{{d.X, r.VertexErr.X, r.VertexCRB.X}, {d.Y, r.VertexErr.Y, r.VertexCRB.Y}, {d.Z, r.VertexErr.Z, r.VertexCRB.Z}} {
+		d := r.Track.Vertex.Add(r.Track.Dir.Mul(r.Shift)).Sub(p.Pos)
+		for _, c := range [][3]float64{{d.X, r.Errors.Vertex.X, r.VertexCRB.X}, {d.Y, r.Errors.Vertex.Y, r.VertexCRB.Y}, {d.Z, r.Errors.Vertex.Z, r.VertexCRB.Z}} {
 			pulls = append(pulls, c[0]/c[1])
 			dev = append(dev, c[0])
 			crb = append(crb, c[2])
@@ -106,10 +140,14 @@ func TestBadInput(t *testing.T) {
 	cfg, f := demoFitter(t)
 	n := cfg.Detector.NumSensors()
 	good := synthetic(rand.New(rand.NewPCG(5, 6)), f, cfg.Detector, cfg.Sensor, r3.Vector{}, 0, 60)
-	oneSensor := make([]pmt.Hit, 20)
-	for i := range oneSensor {
-		oneSensor[i] = pmt.Hit{Sensor: 17, Time: float64(i), Charge: 1}
+	// Eight hits inside the selection window on four sensors, each
+	// sensor's two hits one integration gate apart.
+	var fourSensors []pmt.Hit
+	for s := 17; s < 21; s++ {
+		fourSensors = append(fourSensors, pmt.Hit{Sensor: s, Time: float64(s - 17), Charge: 1},
+			pmt.Hit{Sensor: s, Time: float64(s-17) + cfg.Sensor.IntegrationWindow, Charge: 1})
 	}
+	twice := append(append([]pmt.Hit(nil), good...), good[7])
 	withBad := func(i int, h pmt.Hit) []pmt.Hit {
 		c := append([]pmt.Hit(nil), good...)
 		c[i] = h
@@ -118,22 +156,25 @@ func TestBadInput(t *testing.T) {
 	cases := []struct {
 		name   string
 		hits   []pmt.Hit
-		status lowenergy.Status
+		status fit.Status
 		errSub string
 	}{
-		{"no hits", nil, lowenergy.NoHits, ""},
-		{"four hits", good[:4], lowenergy.TooFewHits, ""},
-		{"one sensor", oneSensor, lowenergy.TooFewSensors, ""},
-		{"NaN time", withBad(3, pmt.Hit{Sensor: 1, Time: math.NaN()}), lowenergy.BadInput, "hits[3].Time = NaN"},
-		{"Inf time", withBad(4, pmt.Hit{Sensor: 1, Time: math.Inf(1)}), lowenergy.BadInput, "hits[4].Time = +Inf"},
-		{"NaN charge", withBad(5, pmt.Hit{Sensor: 1, Charge: math.NaN()}), lowenergy.BadInput, "hits[5].Charge = NaN"},
-		{"sensor -1", withBad(0, pmt.Hit{Sensor: -1}), lowenergy.BadInput, "hits[0].Sensor = -1"},
-		{"sensor N", withBad(1, pmt.Hit{Sensor: n}), lowenergy.BadInput, "hits[1].Sensor ="},
+		{"no hits", nil, fit.NoHits, ""},
+		{"four hits", good[:4], fit.TooFewHits, ""},
+		{"four sensors", fourSensors, fit.TooFewSensors, ""},
+		{"zero charge", withBad(2, pmt.Hit{Sensor: 1, Charge: 0}), fit.BadInput, "hits[2].Charge = 0"},
+		{"negative charge", withBad(2, pmt.Hit{Sensor: 1, Charge: -1}), fit.BadInput, "hits[2].Charge = -1"},
+		{"hit given twice", twice, fit.BadInput, fmt.Sprintf("hits[7] and hits[%d] are both on sensor %d", len(good), good[7].Sensor)},
+		{"NaN time", withBad(3, pmt.Hit{Sensor: 1, Time: math.NaN()}), fit.BadInput, "hits[3].Time = NaN"},
+		{"Inf time", withBad(4, pmt.Hit{Sensor: 1, Time: math.Inf(1)}), fit.BadInput, "hits[4].Time = +Inf"},
+		{"NaN charge", withBad(5, pmt.Hit{Sensor: 1, Charge: math.NaN()}), fit.BadInput, "hits[5].Charge = NaN"},
+		{"sensor -1", withBad(0, pmt.Hit{Sensor: -1}), fit.BadInput, "hits[0].Sensor = -1"},
+		{"sensor N", withBad(1, pmt.Hit{Sensor: n}), fit.BadInput, "hits[1].Sensor ="},
 	}
 	for _, c := range cases {
 		r, err := f.Fit(c.hits)
-		if r.Converged || r.Status != c.status {
-			t.Errorf("%s: status %v converged %v, want %v", c.name, r.Status, r.Converged, c.status)
+		if r.Status == fit.Converged || r.Status != c.status {
+			t.Errorf("%s: status %v converged %v, want %v", c.name, r.Status, r.Status == fit.Converged, c.status)
 		}
 		if c.errSub != "" && (err == nil || !strings.Contains(err.Error(), c.errSub)) {
 			t.Errorf("%s: error %v, want one containing %q", c.name, err, c.errSub)
@@ -141,11 +182,11 @@ func TestBadInput(t *testing.T) {
 		if c.errSub == "" && (err != nil || r.Reason == "") {
 			t.Errorf("%s: error %v reason %q, want no error and a reason", c.name, err, r.Reason)
 		}
-		if _, err := f.TimeLogLikelihood(c.hits, r3.Vector{}, 0); err == nil && c.status != lowenergy.TooFewSensors {
+		if _, err := f.TimeLogLikelihood(c.hits, r3.Vector{}, 0); err == nil && c.status != fit.TooFewSensors {
 			t.Errorf("%s: TimeLogLikelihood accepted the hits", c.name)
 		}
 	}
-	if r, err := f.Fit(good); err != nil || !r.Converged {
+	if r, err := f.Fit(good); err != nil || r.Status != fit.Converged {
 		t.Errorf("good event: %v %v %s", err, r.Status, r.Reason)
 	}
 }
@@ -162,24 +203,71 @@ func TestNewErrors(t *testing.T) {
 	badSensor := cfg.Sensor
 	badSensor.TTS = math.NaN()
 	badTables := &lowenergy.Tables{Name: "x", TankRadius: 1, TankHalfHeight: 1}
-	w, _ := optics.NewWater(optics.DefaultWaterConfig())
+	base := cfg.Setup
+	with := func(change func(*lowenergy.Config)) lowenergy.Config {
+		c := lowenergy.Config{Setup: base}
+		change(&c)
+		return c
+	}
 	cases := []struct {
 		name string
 		c    lowenergy.Config
 		sub  string
 	}{
-		{"nil detector", lowenergy.Config{Sensor: cfg.Sensor, Water: w}, "Detector is nil"},
-		{"no sensors", lowenergy.Config{Detector: empty, Sensor: cfg.Sensor, Water: w}, "no sensors"},
-		{"bad sensor", lowenergy.Config{Detector: cfg.Detector, Sensor: badSensor, Water: w}, "TTS"},
-		{"nil water", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor}, "Water is nil"},
-		{"bad tables", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, Tables: badTables}, "Tables.Residual"},
-		{"negative iterations", lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: w, MaxIterations: -1}, "MaxIterations = -1"},
+		{"nil detector", with(func(c *lowenergy.Config) { c.Detector = nil }), "Setup.Detector is nil"},
+		{"no sensors", with(func(c *lowenergy.Config) { c.Detector = empty }), "no sensors"},
+		{"bad sensor", with(func(c *lowenergy.Config) { c.Sensor = badSensor }), "TTS"},
+		{"bad liner", with(func(c *lowenergy.Config) { c.Liner.Reflectivity = 2 }), "Liner.Reflectivity = 2"},
+		{"dead outside", with(func(c *lowenergy.Config) { c.Dead = []int{3, cfg.Detector.NumSensors()} }), "Setup.Dead[1]"},
+		{"dead twice", with(func(c *lowenergy.Config) { c.Dead = []int{3, 3} }), "listed twice"},
+		{"bad tables", with(func(c *lowenergy.Config) { c.Tables = badTables }), "Tables.Residual"},
+		{"negative iterations", with(func(c *lowenergy.Config) { c.MaxIterations = -1 }), "MaxIterations = -1"},
 	}
 	for _, c := range cases {
 		_, err := lowenergy.New(c.c)
 		if err == nil || !strings.Contains(err.Error(), c.sub) {
 			t.Errorf("%s: error %v, want one containing %q", c.name, err, c.sub)
 		}
+	}
+}
+
+// A nil Water means pure water at 20 C, as for every user of a Setup: the
+// fitter equals one given that water explicitly.
+func TestDefaultWater(t *testing.T) {
+	cfg, f := demoFitter(t)
+	w, err := optics.NewWater(optics.DefaultWaterConfig())
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := cfg.Setup
+	s.Water = nil
+	fNil, err := lowenergy.New(lowenergy.Config{Setup: s})
+	if err != nil {
+		t.Fatalf("nil water: %v", err)
+	}
+	s.Water = w
+	fDef, err := lowenergy.New(lowenergy.Config{Setup: s})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fNil.GroupVelocity() != fDef.GroupVelocity() {
+		t.Errorf("nil water: group velocity %v, default water %v", fNil.GroupVelocity(), fDef.GroupVelocity())
+	}
+	hits := synthetic(rand.New(rand.NewPCG(1, 2)), f, cfg.Detector, cfg.Sensor, r3.Vector{X: 50}, 0, 60)
+	a, errA := fNil.Fit(hits)
+	b, errB := fDef.Fit(hits)
+	if errA != nil || errB != nil || a.Track != b.Track {
+		t.Errorf("nil water fit %+v (%v), default water %+v (%v)", a.Track, errA, b.Track, errB)
+	}
+}
+
+// EkinRange is the span of the energy calibration.
+func TestEkinRange(t *testing.T) {
+	_, f := demoFitter(t)
+	lo, hi := f.EkinRange()
+	cal := f.Tables().Energy
+	if lo != cal[0].Ekin || hi != cal[len(cal)-1].Ekin || !(lo < hi) {
+		t.Errorf("EkinRange = %v, %v; calibration spans %v to %v MeV", lo, hi, cal[0].Ekin, cal[len(cal)-1].Ekin)
 	}
 }
 
@@ -220,8 +308,8 @@ func TestConcurrentFits(t *testing.T) {
 	}
 	wg.Wait()
 	for i := range events {
-		if par[i].Vertex != serial[i].Vertex || par[i].Energy != serial[i].Energy || par[i].Dir != serial[i].Dir {
-			t.Errorf("event %d: concurrent fit %v differs from serial %v", i, par[i].Vertex, serial[i].Vertex)
+		if par[i].Track != serial[i].Track || par[i].Errors != serial[i].Errors {
+			t.Errorf("event %d: concurrent fit %+v differs from serial %+v", i, par[i].Track, serial[i].Track)
 		}
 	}
 }
@@ -252,17 +340,31 @@ func TestTablesRoundTrip(t *testing.T) {
 	if _, err := lowenergy.EmbeddedTables("nope"); err == nil {
 		t.Error("unknown table set accepted")
 	}
-	bad := []string{
-		"bogus 1\n",
-		"residual 2\n0 1 1\n",
-		"tank 1\n",
-		"residual 2\n0 1 1\n2 3 1\n",
-		"residual x\n",
+	if _, err := lowenergy.ReadTables(strings.NewReader(minimalTables)); err != nil {
+		t.Errorf("minimal tables: %v", err)
+	}
+	bad := []struct{ file, want string }{
+		{"bogus 1\n", "unknown keyword"},
+		{"residual 2\n0 1 1\n", "ends inside a section"},
+		{"tank 1\n", "want 2 fields"},
+		{strings.Replace(minimalTables, "0 1 0.5\n", "2 3 0.5\n", 1), "does not continue"},
+		{"residual x\n", "bad count"},
+		{"residual 10001\n", "bad count"},
+		{minimalTables + "energy 1\n20 300 20 3 50\n", `a second "energy"`},
+		{strings.Replace(minimalTables, "50\n10", "-50\n10", 1), "non-negative integer"},
+		{strings.Replace(minimalTables, "50\n10", "5.5\n10", 1), "non-negative integer"},
+		{strings.Replace(minimalTables, "-1 0 0.5\n0 1 0.5", "-1 0 0.5\n0 6000 0.5", 1), "spans 6001 ns"},
 	}
 	for _, b := range bad {
-		if _, err := lowenergy.ReadTables(strings.NewReader(b)); err == nil {
-			t.Errorf("ReadTables accepted %q", b)
+		if _, err := lowenergy.ReadTables(strings.NewReader(b.file)); err == nil || !strings.Contains(err.Error(), b.want) {
+			t.Errorf("ReadTables(%q): %v, want an error containing %q", b.file, err, b.want)
 		}
+	}
+	// WriteTables writes only what ReadTables reads back.
+	tb, _ := lowenergy.ReadTables(strings.NewReader(minimalTables))
+	tb.Name = "two words"
+	if err := lowenergy.WriteTables(io.Discard, tb); err == nil || !strings.Contains(err.Error(), "one word") {
+		t.Errorf("Name with a space: %v", err)
 	}
 }
 
@@ -304,5 +406,37 @@ func TestLight(t *testing.T) {
 	}
 	if _, err := lowenergy.NewLight(w, &m, math.NaN()); err == nil {
 		t.Error("NaN path accepted")
+	}
+}
+
+// A Fitter is immutable after New: changing the tables it was given, or
+// the copy Tables returns, changes no fit.
+func TestTablesCopied(t *testing.T) {
+	cfg, f := demoFitter(t)
+	tb, err := lowenergy.EmbeddedTables("demo")
+	if err != nil {
+		t.Fatal(err)
+	}
+	own, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: tb})
+	if err != nil {
+		t.Fatal(err)
+	}
+	hits := synthetic(rand.New(rand.NewPCG(3, 9)), f, cfg.Detector, cfg.Sensor, r3.Vector{Z: -80}, 0, 60)
+	before, err := own.Fit(hits)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []*lowenergy.Tables{tb, own.Tables()} {
+		for i := range c.Energy {
+			c.Energy[i].Mean *= 2
+		}
+		c.Residual[0].Density = 1e6
+	}
+	after, err := own.Fit(hits)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if after.Track != before.Track || after.Errors != before.Errors {
+		t.Errorf("fit moved after the tables were changed: %+v, was %+v", after.Track, before.Track)
 	}
 }

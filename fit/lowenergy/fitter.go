@@ -1,9 +1,9 @@
 package lowenergy
 
 import (
-	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sync"
 	"time"
 
@@ -11,17 +11,25 @@ import (
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
-	"github.com/conelight/conelight/sim/optics"
+	"github.com/conelight/conelight/sim/setup"
 )
 
-// Config describes the detector a Fitter reconstructs events of.
+// Config describes the detector a Fitter reconstructs events of and how
+// hard the fit may work. Its zero values beyond the Setup are documented
+// defaults.
 type Config struct {
-	// Detector is the tank and its sensors (required, at least one sensor).
-	Detector *geom.Detector
-	// Sensor is the response of every sensor (required, validated).
-	Sensor pmt.Model
-	// Water is the water's optics (required).
-	Water *optics.Water
+	// Setup is the detector: tank and sensors, sensor model, water, liner,
+	// dead sensors (Setup.Check applies its defaults: nil Water means pure
+	// water at 20 C). The fitter leaves the dead sensors out of the
+	// likelihood, the occupancy correction and the dark-noise level, and
+	// counts their hits in Result.DeadHits. It uses the readout window of
+	// the trigger nowhere: the hit selection finds the event's light
+	// itself. The liner enters through the tables: the light it reflects
+	// arrives after the direct light and is part of the residual table's
+	// late tail, made with the liner of the simulation that made the
+	// tables (optics.DefaultLiner for the embedded sets); a much more
+	// reflective liner wants tables made with it.
+	setup.Setup
 	// Tables are the densities and the energy calibration. Nil means the
 	// embedded set made for the tank closest in size to Detector's.
 	Tables *Tables
@@ -29,17 +37,16 @@ type Config struct {
 	// 0 means 200.
 	MaxIterations int
 	// MaxDuration bounds the run time of each optimizer stage; 0 means no
-	// limit. A fit stopped by either limit is marked NotConverged with
-	// the optimizer's reason (IterationLimit, RuntimeLimit). A time limit
-	// makes results depend on machine speed: use it as a guard in
+	// limit. A fit stopped by either limit has Status fit.NotConverged
+	// with the optimizer's reason (IterationLimit, RuntimeLimit). A time
+	// limit makes results depend on machine speed: use it as a guard in
 	// productions, not in regression tests.
 	MaxDuration time.Duration
 }
 
-// Fitter reconstructs low-energy events. It is built once by New, is
-// immutable afterwards and is safe for concurrent use by any number of
-// goroutines; each call to Fit takes its scratch space from an internal
-// pool.
+// Fitter reconstructs low-energy events in one detector. A Fitter is
+// immutable after New and safe for concurrent use by any number of
+// goroutines; per-call scratch is pooled.
 type Fitter struct {
 	det      *geom.Detector
 	sensor   pmt.Model
@@ -49,10 +56,13 @@ type Fitter struct {
 	pos, dir []r3.Vector // sensor positions and inward axes
 	// scaled holds the sensor positions divided by vg (ns).
 	scaled []r3.Vector
+	// dead marks the sensors out of service; live counts the others.
+	dead []bool
+	live int
 
 	res       residualModel
 	selWindow float64 // ns, length of the hit-selection window
-	darkPerNs float64 // expected dark hits per ns in the whole detector
+	darkPerNs float64 // expected dark hits per ns in the live sensors
 
 	dirDensity         grid
 	promptLo, promptHi float64 // ns, prompt residual window
@@ -62,8 +72,9 @@ type Fitter struct {
 	coarseSpacing float64     // cm
 	fibonacci     []r3.Vector // direction seed set
 
-	nbStart, nb []int32 // neighbour lists for the occupancy correction
-	coverage    float64
+	nbStart, nb []int32 // live neighbour lists for the occupancy correction
+	// coverage is the photocathode coverage of the live sensors.
+	coverage float64
 	// energySigma is the energy spread (MeV) at each calibration point.
 	energySigma []float64
 
@@ -72,28 +83,21 @@ type Fitter struct {
 	pool    sync.Pool
 }
 
-// New builds a Fitter. Errors name the bad field.
+// New builds a Fitter. Errors name the bad field and its value.
 func New(cfg Config) (*Fitter, error) {
-	if cfg.Detector == nil {
-		return nil, errors.New("fit: Config.Detector is nil")
-	}
-	n := cfg.Detector.NumSensors()
-	if n == 0 {
-		return nil, errors.New("fit: Config.Detector has no sensors")
-	}
-	if err := cfg.Sensor.Validate(); err != nil {
-		return nil, fmt.Errorf("fit: Config.Sensor: %w", err)
-	}
-	if cfg.Water == nil {
-		return nil, errors.New("fit: Config.Water is nil")
+	s := cfg.Setup
+	s.Dead = slices.Clone(s.Dead)
+	if err := s.Check(); err != nil {
+		return nil, fmt.Errorf("lowenergy: %w", err)
 	}
 	if cfg.MaxDuration < 0 {
-		return nil, fmt.Errorf("fit: Config.MaxDuration = %v must not be negative", cfg.MaxDuration)
+		return nil, fmt.Errorf("lowenergy: Config.MaxDuration = %v must not be negative", cfg.MaxDuration)
 	}
 	if cfg.MaxIterations < 0 {
-		return nil, fmt.Errorf("fit: Config.MaxIterations = %d must not be negative", cfg.MaxIterations)
+		return nil, fmt.Errorf("lowenergy: Config.MaxIterations = %d must not be negative", cfg.MaxIterations)
 	}
-	tank := cfg.Detector.Tank()
+	n := s.Detector.NumSensors()
+	tank := s.Detector.Tank()
 	radius, half := tank.SensorRadius(), tank.SensorHalfHeight()
 	tables := cfg.Tables
 	if tables == nil {
@@ -102,16 +106,20 @@ func New(cfg Config) (*Fitter, error) {
 			return nil, err
 		}
 	} else if err := tables.Validate(); err != nil {
-		return nil, fmt.Errorf("fit: Config.Tables: %w", err)
+		return nil, err
+	} else {
+		// The fitter keeps its own copy: a caller changing its tables
+		// later changes no fit.
+		tables = tables.clone()
 	}
 	diag := math.Hypot(2*radius, 2*half)
-	light, err := NewLight(cfg.Water, &cfg.Sensor, diag)
+	light, err := NewLight(s.Water, &s.Sensor, diag)
 	if err != nil {
 		return nil, err
 	}
 	f := &Fitter{
-		det:     cfg.Detector,
-		sensor:  cfg.Sensor,
+		det:     s.Detector,
+		sensor:  s.Sensor,
 		tables:  tables,
 		light:   light,
 		vg:      light.GroupVelocity,
@@ -125,28 +133,36 @@ func New(cfg Config) (*Fitter, error) {
 	f.dir = make([]r3.Vector, n)
 	f.scaled = make([]r3.Vector, n)
 	for i := range n {
-		s := cfg.Detector.Sensor(i)
-		f.pos[i], f.dir[i] = s.Pos, s.Dir
-		f.scaled[i] = s.Pos.Mul(1 / f.vg)
+		sn := s.Detector.Sensor(i)
+		f.pos[i], f.dir[i] = sn.Pos, sn.Dir
+		f.scaled[i] = sn.Pos.Mul(1 / f.vg)
 	}
+	f.dead = make([]bool, n)
+	for _, d := range s.Dead {
+		f.dead[d] = true
+	}
+	f.live = n - len(s.Dead)
 
 	// Timing: the table's own spread is removed from the sensor's.
-	smear := math.Sqrt(math.Max(cfg.Sensor.TTS*cfg.Sensor.TTS-tables.TTS*tables.TTS, 0))
+	smear := math.Sqrt(math.Max(s.Sensor.TTS*s.Sensor.TTS-tables.TTS*tables.TTS, 0))
 	smear = math.Max(smear, minSmear)
 	signal := smearBins(tables.Residual, smear, gridStep)
-	f.sigmaT = math.Hypot(cfg.Sensor.TTS, 1)
+	f.sigmaT = math.Hypot(s.Sensor.TTS, 1)
 	// Every signal hit of a vertex inside the tank falls within the light
 	// crossing time of the tank plus the late tail of the residual table.
 	f.selWindow = diag/f.vg + math.Min(signal.hi(), 100)
 	f.res = newResidualModel(signal, f.selWindow)
-	f.darkPerNs = float64(n) * cfg.Sensor.DarkRate * 1e-9
+	// Dead sensors give no dark hits.
+	f.darkPerNs = float64(f.live) * s.Sensor.DarkRate * 1e-9
 	f.promptLo = -3*f.sigmaT - 2
 	f.promptHi = 3*f.sigmaT + 8
 
 	f.dirDensity = directionGrid(tables.Direction)
-	f.coverage = cfg.Detector.Coverage()
+	// The light a dead sensor would have caught is lost like the light
+	// between the sensors: the effective coverage is that of the live ones.
+	f.coverage = s.Detector.Coverage() * float64(f.live) / float64(n)
 	if !(f.coverage > 0) {
-		return nil, fmt.Errorf("fit: Config.Detector coverage = %v must be positive", f.coverage)
+		return nil, fmt.Errorf("lowenergy: Config.Detector coverage = %v must be positive", f.coverage)
 	}
 	f.energySigma = energySpreads(tables.Energy)
 	f.buildSeedGrid(radius, half)
@@ -156,12 +172,21 @@ func New(cfg Config) (*Fitter, error) {
 	return f, nil
 }
 
+// EkinRange returns the kinetic-energy range (MeV) of the fitter's energy
+// calibration, its first and last points. Energies outside it are
+// extrapolated linearly from the nearest two points and are not
+// calibrated: callers choose this fitter for events inside the range.
+func (f *Fitter) EkinRange() (lo, hi float64) {
+	cal := f.tables.Energy
+	return cal[0].Ekin, cal[len(cal)-1].Ekin
+}
+
 // GroupVelocity returns the effective group velocity (cm/ns) the fitter
 // converts path lengths to times with.
 func (f *Fitter) GroupVelocity() float64 { return f.vg }
 
-// Tables returns the tables the fitter was built from (do not modify).
-func (f *Fitter) Tables() *Tables { return f.tables }
+// Tables returns a copy of the tables the fitter was built from.
+func (f *Fitter) Tables() *Tables { return f.tables.clone() }
 
 // PromptWindow returns the time-residual window (ns) of the hits the
 // direction and energy estimates use.
@@ -199,8 +224,10 @@ func fibonacciSphere(n int) []r3.Vector {
 	return out
 }
 
-// buildNeighbours lists, for each sensor, the sensors within 1.6 times the
-// mean pitch, with a uniform hash grid (cell = radius).
+// buildNeighbours lists, for each sensor, the live sensors within 2.5
+// times the mean pitch, with a uniform hash grid (cell = radius). A dead
+// sensor cannot be hit, so it is no neighbour: the occupancy is the hit
+// fraction of the live sensors around a hit.
 func (f *Fitter) buildNeighbours(pitch float64) {
 	rad := 2.5 * pitch
 	type key struct{ x, y, z int }
@@ -219,7 +246,7 @@ func (f *Fitter) buildNeighbours(pitch float64) {
 			for dy := -1; dy <= 1; dy++ {
 				for dx := -1; dx <= 1; dx++ {
 					for _, j := range cells[key{k.x + dx, k.y + dy, k.z + dz}] {
-						if int(j) != i && f.pos[j].Sub(p).Norm() < rad {
+						if int(j) != i && !f.dead[j] && f.pos[j].Sub(p).Norm() < rad {
 							f.nb = append(f.nb, j)
 						}
 					}

@@ -4,6 +4,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -55,10 +56,10 @@ func summarize(t testing.TB, evs []fitted) (resolution.Summary, int) {
 	t.Helper()
 	var fs, ts []resolution.Sample
 	for _, ev := range evs {
-		if !ev.res.Converged {
+		if ev.res.Status != fit.Converged {
 			continue
 		}
-		fs = append(fs, resolution.Sample{Vertex: ev.res.Vertex, Dir: ev.res.Dir, Energy: ev.res.Energy})
+		fs = append(fs, resolution.Sample{Vertex: ev.res.Track.Vertex, Dir: ev.res.Track.Dir, Energy: ev.res.Track.Ekin})
 		ts = append(ts, ev.truth)
 	}
 	s, err := resolution.Summarize(fs, ts)
@@ -87,7 +88,7 @@ func fitterFor(t testing.TB, cfg sim.Config, err error) (sim.Config, *lowenergy.
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water})
+	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		t.Fatal(err)
 	}

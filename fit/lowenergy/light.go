@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
@@ -32,10 +33,9 @@ type Light struct {
 const lightSteps = 200
 
 // NewLight computes the Light of the water and sensor model for paths up
-// to maxPath cm. The Cherenkov photon number per unit wavelength goes as
-// 1/lambda^2 (Frank-Tamm, PDG Review, Passage of particles through
-// matter); the detected spectrum is that times the sensor's spectral
-// efficiency.
+// to maxPath cm, from the detected Cherenkov spectrum of the water's band
+// (fit.Spectrum: Frank-Tamm emission times the sensor's spectral
+// efficiency).
 func NewLight(water *optics.Water, sensor *pmt.Model, maxPath float64) (Light, error) {
 	if water == nil {
 		return Light{}, errors.New("fit: Water is nil")
@@ -44,40 +44,20 @@ func NewLight(water *optics.Water, sensor *pmt.Model, maxPath float64) (Light, e
 		return Light{}, fmt.Errorf("fit: maximum path = %v must be positive and finite", maxPath)
 	}
 	lo, hi := water.Band()
-	dl := (hi - lo) / lightSteps
-	var sumEmit, sumDet, sumInvV float64
-	lambdas := make([]float64, 0, lightSteps)
-	weights := make([]float64, 0, lightSteps)
-	atten := make([]float64, 0, lightSteps)
-	for k := range lightSteps {
-		l := lo + (float64(k)+0.5)*dl
-		emit := 1 / (l * l)
-		det := emit * sensor.SpectralEfficiency(l)
-		sumEmit += emit
-		sumDet += det
-		sumInvV += det / water.GroupVelocity(l)
-		lambdas = append(lambdas, l)
-		weights = append(weights, det)
-		a := 1/water.AbsorptionLength(l) + 1/water.ScatteringLength(l)
-		atten = append(atten, a)
+	sp, err := fit.NewSpectrum(water, sensor, lo, hi, lightSteps)
+	if err != nil {
+		return Light{}, err
 	}
-	if !(sumDet > 0) {
-		return Light{}, fmt.Errorf("fit: sensor %q detects nothing in the water band %v-%v nm", sensor.Name, lo, hi)
-	}
+	eff := sp.Efficiency()
 	lt := Light{
-		GroupVelocity: sumDet / sumInvV,
-		Efficiency:    sumDet / sumEmit,
+		GroupVelocity: sp.HarmonicMean(water.GroupVelocity),
+		Efficiency:    eff,
 		transStep:     5,
 	}
 	n := int(maxPath/lt.transStep) + 2
 	lt.transmission = make([]float64, n)
 	for i := range n {
-		d := float64(i) * lt.transStep
-		s := 0.0
-		for k := range lambdas {
-			s += weights[k] * math.Exp(-d*atten[k])
-		}
-		lt.transmission[i] = s / sumDet
+		lt.transmission[i] = sp.Survival(float64(i)*lt.transStep) / eff
 	}
 	if !(lt.GroupVelocity > 0 && lt.GroupVelocity < phys.SpeedOfLight) {
 		return Light{}, fmt.Errorf("fit: group velocity %v cm/ns out of range", lt.GroupVelocity)

@@ -5,6 +5,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 )
@@ -25,7 +26,7 @@ func TestOptimizerLimits(t *testing.T) {
 		{lowenergy.Config{MaxIterations: 1}, "IterationLimit"},
 		{lowenergy.Config{MaxDuration: time.Nanosecond}, "RuntimeLimit"},
 	} {
-		c.cfg.Detector, c.cfg.Sensor, c.cfg.Water = cfg.Detector, cfg.Sensor, cfg.Water
+		c.cfg.Setup = cfg.Setup
 		f, err := lowenergy.New(c.cfg)
 		if err != nil {
 			t.Fatal(err)
@@ -36,7 +37,7 @@ func TestOptimizerLimits(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !r.Converged {
+			if r.Status != fit.Converged {
 				stopped++
 				if !strings.Contains(r.Reason, c.want) {
 					t.Errorf("%s: reason %q", c.want, r.Reason)
@@ -47,7 +48,7 @@ func TestOptimizerLimits(t *testing.T) {
 			t.Errorf("%s: no fit was stopped", c.want)
 		}
 	}
-	if _, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
+	if _, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, MaxDuration: -time.Second}); err == nil || !strings.Contains(err.Error(), "MaxDuration") {
 		t.Errorf("negative MaxDuration: %v", err)
 	}
 }

@@ -10,6 +10,7 @@ import (
 	"sync"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/resolution"
 )
 
@@ -149,16 +150,16 @@ func TestPulls(t *testing.T) {
 	for _, e := range regressionEnergies {
 		var ex, ee []float64
 		for _, ev := range s[e] {
-			if !ev.res.Converged {
+			if ev.res.Status != fit.Converged {
 				continue
 			}
-			d := ev.res.Vertex.Sub(ev.truth.Vertex)
-			px = append(px, d.X/ev.res.VertexErr.X)
-			py = append(py, d.Y/ev.res.VertexErr.Y)
-			pz = append(pz, d.Z/ev.res.VertexErr.Z)
-			pe = append(pe, (ev.res.Energy-e)/ev.res.EnergyErr)
-			ex = append(ex, d.X/ev.res.VertexErr.X, d.Y/ev.res.VertexErr.Y, d.Z/ev.res.VertexErr.Z)
-			ee = append(ee, (ev.res.Energy-e)/ev.res.EnergyErr)
+			d := ev.res.Track.Vertex.Sub(ev.truth.Vertex)
+			px = append(px, d.X/ev.res.Errors.Vertex.X)
+			py = append(py, d.Y/ev.res.Errors.Vertex.Y)
+			pz = append(pz, d.Z/ev.res.Errors.Vertex.Z)
+			pe = append(pe, (ev.res.Track.Ekin-e)/ev.res.Errors.Ekin)
+			ex = append(ex, d.X/ev.res.Errors.Vertex.X, d.Y/ev.res.Errors.Vertex.Y, d.Z/ev.res.Errors.Vertex.Z)
+			ee = append(ee, (ev.res.Track.Ekin-e)/ev.res.Errors.Ekin)
 		}
 		gx, err := resolution.GaussianCore(ex, 2)
 		if err != nil {
@@ -197,10 +198,10 @@ func TestCramerRao(t *testing.T) {
 	for _, e := range regressionEnergies {
 		var ratio []float64
 		for _, ev := range s[e] {
-			if !ev.res.Converged {
+			if ev.res.Status != fit.Converged {
 				continue
 			}
-			d := ev.res.Vertex.Add(ev.res.Dir.Mul(ev.res.Shift)).Sub(ev.truth.Vertex)
+			d := ev.res.Track.Vertex.Add(ev.res.Track.Dir.Mul(ev.res.Shift)).Sub(ev.truth.Vertex)
 			c := ev.res.VertexCRB
 			ratio = append(ratio, d.X/c.X, d.Y/c.Y, d.Z/c.Z)
 		}

@@ -7,12 +7,15 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
-	"os"
-	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
+	"unicode"
+
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
@@ -68,13 +71,23 @@ type Tables struct {
 	Meta map[string]string
 }
 
+// clone returns a deep copy of t.
+func (t *Tables) clone() *Tables {
+	c := *t
+	c.Residual = slices.Clone(t.Residual)
+	c.Direction = slices.Clone(t.Direction)
+	c.Energy = slices.Clone(t.Energy)
+	c.Meta = maps.Clone(t.Meta)
+	return &c
+}
+
 // EmbeddedTables returns the table set embedded in the package under name
 // ("demo" for the demo tank with medium sensors, "large" for the 40 m
 // class tank with large sensors).
 func EmbeddedTables(name string) (*Tables, error) {
 	b, err := embeddedTables.ReadFile("data/" + name + ".txt")
 	if err != nil {
-		return nil, fmt.Errorf("fit: no embedded table set %q (have %s)", name, strings.Join(EmbeddedTableNames(), ", "))
+		return nil, fmt.Errorf("lowenergy: no embedded table set %q (have %s)", name, strings.Join(EmbeddedTableNames(), ", "))
 	}
 	return ReadTables(bytes.NewReader(b))
 }
@@ -106,63 +119,86 @@ func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
 		}
 	}
 	if best == nil {
-		return nil, errors.New("fit: no embedded tables")
+		return nil, errors.New("lowenergy: no embedded tables")
 	}
 	return best, nil
 }
 
+// maxBins bounds the bins of a tabulated density (the embedded sets have
+// a few hundred), and maxResidualSpan (ns) the span of the residual
+// table: the fitter tabulates the residual density on a 0.1 ns grid per
+// event, so both bound its memory and time.
+const (
+	maxBins         = 10000
+	maxResidualSpan = 5000
+)
+
 // Validate checks the tables: finite non-negative densities on ordered,
-// contiguous bins, a direction table inside [-1, 1], and a calibration with
-// increasing energy and mean.
+// contiguous bins (at most 10,000; the residual table spanning at most
+// 5,000 ns), a direction table inside [-1, 1], and a calibration with
+// increasing energy and mean and non-negative event counts.
 func (t *Tables) Validate() error {
 	if t == nil {
-		return errors.New("fit: Tables is nil")
+		return errors.New("lowenergy: Tables is nil")
+	}
+	// Name and the Meta keys are single words and the Meta values single
+	// lines, so that WriteTables writes a file ReadTables reads back.
+	if strings.ContainsFunc(t.Name, unicode.IsSpace) {
+		return fmt.Errorf("lowenergy: Tables.Name = %q must be one word", t.Name)
+	}
+	for k, v := range t.Meta {
+		if k == "" || strings.ContainsFunc(k, unicode.IsSpace) || strings.ContainsAny(v, "\r\n") {
+			return fmt.Errorf("lowenergy: Tables.Meta[%q] = %q: the key must be one word and the value one line", k, v)
+		}
 	}
 	if !(t.TankRadius > 0 && t.TankHalfHeight > 0) || math.IsInf(t.TankRadius, 0) || math.IsInf(t.TankHalfHeight, 0) {
-		return fmt.Errorf("fit: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
+		return fmt.Errorf("lowenergy: Tables.TankRadius = %v, TankHalfHeight = %v must be positive and finite", t.TankRadius, t.TankHalfHeight)
 	}
 	if !(t.TTS >= 0) || math.IsInf(t.TTS, 0) {
-		return fmt.Errorf("fit: Tables.TTS = %v must be non-negative and finite", t.TTS)
+		return fmt.Errorf("lowenergy: Tables.TTS = %v must be non-negative and finite", t.TTS)
 	}
 	if err := validateBins("Residual", t.Residual, math.Inf(-1), math.Inf(1)); err != nil {
 		return err
+	}
+	if span := t.Residual[len(t.Residual)-1].Hi - t.Residual[0].Lo; span > maxResidualSpan {
+		return fmt.Errorf("lowenergy: Tables.Residual spans %v ns, more than %v", span, maxResidualSpan)
 	}
 	if err := validateBins("Direction", t.Direction, -1, 1); err != nil {
 		return err
 	}
 	if len(t.Energy) < 2 {
-		return fmt.Errorf("fit: Tables.Energy has %d points, need at least 2", len(t.Energy))
+		return fmt.Errorf("lowenergy: Tables.Energy has %d points, need at least 2", len(t.Energy))
 	}
 	for i, p := range t.Energy {
-		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) {
-			return fmt.Errorf("fit: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma and a finite Shift", i, p)
+		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) || p.Events < 0 {
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma, a finite Shift and non-negative Events", i, p)
 		}
 		if i > 0 && !(p.Ekin > t.Energy[i-1].Ekin && p.Mean > t.Energy[i-1].Mean) {
-			return fmt.Errorf("fit: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
 		}
 	}
 	return nil
 }
 
 func validateBins(name string, bins []Bin, lo, hi float64) error {
-	if len(bins) < 2 {
-		return fmt.Errorf("fit: Tables.%s has %d bins, need at least 2", name, len(bins))
+	if len(bins) < 2 || len(bins) > maxBins {
+		return fmt.Errorf("lowenergy: Tables.%s has %d bins, need 2 to %d", name, len(bins), maxBins)
 	}
 	sum := 0.0
 	for i, b := range bins {
 		if !(b.Hi > b.Lo) || math.IsInf(b.Lo, 0) || math.IsInf(b.Hi, 0) || !(b.Density >= 0) || math.IsInf(b.Density, 0) {
-			return fmt.Errorf("fit: Tables.%s[%d] = %+v must have finite Lo < Hi and a finite non-negative Density", name, i, b)
+			return fmt.Errorf("lowenergy: Tables.%s[%d] = %+v must have finite Lo < Hi and a finite non-negative Density", name, i, b)
 		}
 		if i > 0 && b.Lo != bins[i-1].Hi {
-			return fmt.Errorf("fit: Tables.%s[%d].Lo = %v does not continue bin %d (Hi = %v)", name, i, b.Lo, i-1, bins[i-1].Hi)
+			return fmt.Errorf("lowenergy: Tables.%s[%d].Lo = %v does not continue bin %d (Hi = %v)", name, i, b.Lo, i-1, bins[i-1].Hi)
 		}
 		if b.Lo < lo-1e-12 || b.Hi > hi+1e-12 {
-			return fmt.Errorf("fit: Tables.%s[%d] = [%v, %v) outside [%v, %v]", name, i, b.Lo, b.Hi, lo, hi)
+			return fmt.Errorf("lowenergy: Tables.%s[%d] = [%v, %v) outside [%v, %v]", name, i, b.Lo, b.Hi, lo, hi)
 		}
 		sum += b.Density * (b.Hi - b.Lo)
 	}
 	if !(sum > 0) {
-		return fmt.Errorf("fit: Tables.%s has zero integral", name)
+		return fmt.Errorf("lowenergy: Tables.%s has zero integral", name)
 	}
 	return nil
 }
@@ -176,8 +212,11 @@ func validateBins(name string, bins []Bin, lo, hi float64) error {
 //	residual <n>          followed by n lines "lo hi density" (ns, 1/ns)
 //	direction <n>         followed by n lines "lo hi density" (cosine)
 //	energy <n>            followed by n lines "ekin mean sigma shift events"
+//
+// Each keyword appears at most once; counts are at most 10,000.
 
-// ReadTables parses a table file.
+// ReadTables parses a table file and validates the tables
+// (Tables.Validate). Errors name the line.
 func ReadTables(r io.Reader) (*Tables, error) {
 	t := &Tables{Meta: map[string]string{}}
 	sc := bufio.NewScanner(r)
@@ -195,24 +234,24 @@ func ReadTables(r io.Reader) (*Tables, error) {
 	}
 	parse := func(f []string, n int) ([]float64, error) {
 		if len(f) != n {
-			return nil, fmt.Errorf("fit: table line %d: want %d fields, have %d", line, n, len(f))
+			return nil, fmt.Errorf("lowenergy: table line %d: want %d fields, have %d", line, n, len(f))
 		}
 		v := make([]float64, n)
 		for i, s := range f {
 			x, err := strconv.ParseFloat(s, 64)
 			if err != nil {
-				return nil, fmt.Errorf("fit: table line %d: %v", line, err)
+				return nil, fmt.Errorf("lowenergy: table line %d: %v", line, err)
 			}
 			v[i] = x
 		}
 		return v, nil
 	}
 	readBins := func(n int) ([]Bin, error) {
-		bins := make([]Bin, 0, n)
+		var bins []Bin
 		for range n {
 			f, ok := next()
 			if !ok {
-				return nil, fmt.Errorf("fit: table ends inside a section at line %d", line)
+				return nil, fmt.Errorf("lowenergy: table ends inside a section at line %d", line)
 			}
 			v, err := parse(f, 3)
 			if err != nil {
@@ -222,25 +261,32 @@ func ReadTables(r io.Reader) (*Tables, error) {
 		}
 		return bins, nil
 	}
+	seen := map[string]bool{}
 	for {
 		f, ok := next()
 		if !ok {
 			break
 		}
+		if f[0] != "meta" {
+			if seen[f[0]] {
+				return nil, fmt.Errorf("lowenergy: table line %d: a second %q", line, f[0])
+			}
+			seen[f[0]] = true
+		}
 		count := func() (int, error) {
 			if len(f) != 2 {
-				return 0, fmt.Errorf("fit: table line %d: %q wants a count", line, f[0])
+				return 0, fmt.Errorf("lowenergy: table line %d: %q wants a count", line, f[0])
 			}
 			n, err := strconv.Atoi(f[1])
-			if err != nil || n < 0 || n > 1<<20 {
-				return 0, fmt.Errorf("fit: table line %d: bad count %q", line, f[1])
+			if err != nil || n < 0 || n > maxBins {
+				return 0, fmt.Errorf("lowenergy: table line %d: bad count %q", line, f[1])
 			}
 			return n, nil
 		}
 		switch f[0] {
 		case "name":
 			if len(f) != 2 {
-				return nil, fmt.Errorf("fit: table line %d: name wants one word", line)
+				return nil, fmt.Errorf("lowenergy: table line %d: name wants one word", line)
 			}
 			t.Name = f[1]
 		case "tank":
@@ -257,7 +303,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 			t.TTS = v[0]
 		case "meta":
 			if len(f) < 3 {
-				return nil, fmt.Errorf("fit: table line %d: meta wants a key and a value", line)
+				return nil, fmt.Errorf("lowenergy: table line %d: meta wants a key and a value", line)
 			}
 			t.Meta[f[1]] = strings.Join(f[2:], " ")
 		case "residual", "direction":
@@ -282,20 +328,27 @@ func ReadTables(r io.Reader) (*Tables, error) {
 			for range n {
 				g, ok := next()
 				if !ok {
-					return nil, fmt.Errorf("fit: table ends inside the energy section at line %d", line)
+					return nil, fmt.Errorf("lowenergy: table ends inside the energy section at line %d", line)
 				}
-				v, err := parse(g, 5)
+				if len(g) != 5 {
+					return nil, fmt.Errorf("lowenergy: table line %d: want 5 fields, have %d", line, len(g))
+				}
+				v, err := parse(g[:4], 4)
 				if err != nil {
 					return nil, err
 				}
-				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], int(v[4])})
+				events, err := strconv.Atoi(g[4])
+				if err != nil || events < 0 {
+					return nil, fmt.Errorf("lowenergy: table line %d: event count %q must be a non-negative integer", line, g[4])
+				}
+				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], events})
 			}
 		default:
-			return nil, fmt.Errorf("fit: table line %d: unknown keyword %q", line, f[0])
+			return nil, fmt.Errorf("lowenergy: table line %d: unknown keyword %q", line, f[0])
 		}
 	}
 	if err := sc.Err(); err != nil {
-		return nil, fmt.Errorf("fit: reading tables: %w", err)
+		return nil, fmt.Errorf("lowenergy: reading tables: %w", err)
 	}
 	if err := t.Validate(); err != nil {
 		return nil, err
@@ -303,14 +356,18 @@ func ReadTables(r io.Reader) (*Tables, error) {
 	return t, nil
 }
 
-// WriteTables writes t in the format ReadTables reads.
+// WriteTables writes t in the format ReadTables reads, every number in
+// the shortest form that reads back exactly.
 func WriteTables(w io.Writer, t *Tables) error {
 	if err := t.Validate(); err != nil {
 		return err
 	}
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "# conelight fit tables (format: see lowenergy.ReadTables)\n")
-	fmt.Fprintf(bw, "name %s\ntank %g %g\ntts %g\n", t.Name, t.TankRadius, t.TankHalfHeight, t.TTS)
+	if t.Name != "" {
+		fmt.Fprintf(bw, "name %s\n", t.Name)
+	}
+	fmt.Fprintf(bw, "tank %g %g\ntts %g\n", t.TankRadius, t.TankHalfHeight, t.TTS)
 	keys := make([]string, 0, len(t.Meta))
 	for k := range t.Meta {
 		keys = append(keys, k)
@@ -325,41 +382,18 @@ func WriteTables(w io.Writer, t *Tables) error {
 	}{{"residual", t.Residual}, {"direction", t.Direction}} {
 		fmt.Fprintf(bw, "%s %d\n", sec.name, len(sec.bins))
 		for _, b := range sec.bins {
-			fmt.Fprintf(bw, "%g %g %.6g\n", b.Lo, b.Hi, b.Density)
+			fmt.Fprintf(bw, "%g %g %g\n", b.Lo, b.Hi, b.Density)
 		}
 	}
 	fmt.Fprintf(bw, "energy %d\n", len(t.Energy))
 	for _, p := range t.Energy {
-		fmt.Fprintf(bw, "%g %.6g %.6g %.4g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
+		fmt.Fprintf(bw, "%g %g %g %g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
 	}
 	return bw.Flush()
 }
 
 // SaveTables writes t to path atomically (temporary file in the same
 // directory, then rename).
-func SaveTables(path string, t *Tables) (err error) {
-	f, err := os.CreateTemp(filepath.Dir(path), ".tables-*")
-	if err != nil {
-		return fmt.Errorf("fit: %w", err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err = WriteTables(f, t); err != nil {
-		return err
-	}
-	// CreateTemp makes the file private; a table is a source file.
-	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("fit: %w", err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("fit: %w", err)
-	}
-	if err = os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("fit: %w", err)
-	}
-	return nil
+func SaveTables(path string, t *Tables) error {
+	return safefile.Write(path, func(w io.Writer) error { return WriteTables(w, t) })
 }

@@ -4,6 +4,7 @@ import (
 	"os"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/resolution"
 )
 
@@ -27,17 +28,17 @@ func TestLargeTankTargets(t *testing.T) {
 	var ratio, px, pe []float64
 	hits, prompt := 0, 0
 	for _, ev := range evs {
-		if !ev.res.Converged {
+		if ev.res.Status != fit.Converged {
 			continue
 		}
 		hits += ev.res.Selected
 		prompt += ev.res.Prompt
-		d := ev.res.Vertex.Add(ev.res.Dir.Mul(ev.res.Shift)).Sub(ev.truth.Vertex)
+		d := ev.res.Track.Vertex.Add(ev.res.Track.Dir.Mul(ev.res.Shift)).Sub(ev.truth.Vertex)
 		c := ev.res.VertexCRB
 		ratio = append(ratio, d.X/c.X, d.Y/c.Y, d.Z/c.Z)
-		e := ev.res.Vertex.Sub(ev.truth.Vertex)
-		px = append(px, e.X/ev.res.VertexErr.X, e.Y/ev.res.VertexErr.Y, e.Z/ev.res.VertexErr.Z)
-		pe = append(pe, (ev.res.Energy-10)/ev.res.EnergyErr)
+		e := ev.res.Track.Vertex.Sub(ev.truth.Vertex)
+		px = append(px, e.X/ev.res.Errors.Vertex.X, e.Y/ev.res.Errors.Vertex.Y, e.Z/ev.res.Errors.Vertex.Z)
+		pe = append(pe, (ev.res.Track.Ekin-10)/ev.res.Errors.Ekin)
 	}
 	gr, _ := resolution.GaussianCore(ratio, 2)
 	gx, _ := resolution.GaussianCore(px, 2)

@@ -61,3 +61,20 @@ func ExampleCompare() {
 	// Output:
 	// e-10MeV vertex68 worse by 3.2 sigma
 }
+
+// Proportion reports a fraction as a physicist does: a central
+// Clopper-Pearson interval, or a one-sided limit at 0 or n of n.
+func ExampleProportion() {
+	for _, k := range []int{3, 0, 16} {
+		b, err := resolution.Proportion(k, 16)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fmt.Println(b.Percent())
+	}
+	// Output:
+	// 3/16 = 19 +15/-10 % (68.3% CL, Clopper-Pearson)
+	// 0/16 < 13 % (90% CL)
+	// 16/16 > 87 % (90% CL)
+}

@@ -3,11 +3,11 @@ package resolution
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/stat"
 	"gonum.org/v1/gonum/stat/distuv"
-	"slices"
 )
 
 // TestKSCriticalTable checks the critical values against the published

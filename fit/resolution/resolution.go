@@ -4,6 +4,15 @@
 // Gaussian core fit, each with its statistical uncertainty, so users can
 // write regression tests with tolerances derived from the sample size.
 //
+// Fractions (an efficiency, a mis-identification rate) are binomial
+// proportions k/n, reported with the Clopper-Pearson interval: the
+// bounds are the proportions at which the observed k lies in a binomial
+// tail of probability (1-CL)/2, quantiles of beta distributions; the
+// interval covers the true proportion with at least the stated
+// probability for every proportion and n. With k = 0 (or k = n) there is
+// nothing to measure on one side, and Proportion gives a one-sided upper
+// (or lower) limit instead of error bars.
+//
 // Units are those of the inputs (cm, MeV); angles are returned in degrees.
 package resolution
 
@@ -29,16 +38,44 @@ func (e Estimate) String() string { return fmt.Sprintf("%.4g ± %.2g", e.Value, 
 // binomial(n, p), so the order statistics at ranks n p -/+ sqrt(n p (1-p))
 // bound a 1-sigma interval (distribution-free confidence interval for a
 // quantile, common practice), and half their distance is the error.
-// x is not modified.
+// x is not modified. QuantileInterval gives the two bounds.
 func Quantile(x []float64, p float64) (Estimate, error) {
-	if !(p > 0 && p < 1) {
-		return Estimate{}, fmt.Errorf("resolution: quantile p = %v must be in (0, 1)", p)
-	}
-	if err := checkFinite(x); err != nil {
+	q, err := QuantileInterval(x, p)
+	if err != nil {
 		return Estimate{}, err
 	}
+	return q.estimate(), nil
+}
+
+// estimate is the quantile with half the interval as its error.
+func (q Interval) estimate() Estimate { return Estimate{Value: q.Value, Err: 0.5 * (q.Hi - q.Lo)} }
+
+// Interval is a value with the bounds of its 1-sigma confidence interval,
+// for a value whose uncertainty is not symmetric: a small sample's
+// quantile or a quantity that cannot be negative.
+type Interval struct {
+	Value, Lo, Hi float64
+}
+
+// String formats the interval as "value +up/-down".
+func (q Interval) String() string {
+	return fmt.Sprintf("%.4g +%.2g/-%.2g", q.Value, q.Hi-q.Value, q.Value-q.Lo)
+}
+
+// QuantileInterval returns the p-quantile of x (0 < p < 1) with the
+// order statistics at ranks n p -/+ sqrt(n p (1-p)) as the bounds of its
+// 1-sigma interval (see Quantile). Unlike the symmetric error, the bounds
+// stay inside the range of the values: a positive quantity keeps a
+// positive lower bound, however few the values. x is not modified.
+func QuantileInterval(x []float64, p float64) (Interval, error) {
+	if !(p > 0 && p < 1) {
+		return Interval{}, fmt.Errorf("resolution: quantile p = %v must be in (0, 1)", p)
+	}
+	if err := checkFinite(x); err != nil {
+		return Interval{}, err
+	}
 	if len(x) < 2 {
-		return Estimate{}, fmt.Errorf("resolution: %d values, need at least 2", len(x))
+		return Interval{}, fmt.Errorf("resolution: %d values, need at least 2", len(x))
 	}
 	s := slices.Clone(x)
 	slices.Sort(s)
@@ -55,7 +92,7 @@ func Quantile(x []float64, p float64) (Estimate, error) {
 	}
 	centre := n*p - 0.5
 	d := math.Sqrt(n * p * (1 - p))
-	return Estimate{Value: at(centre), Err: 0.5 * (at(centre+d) - at(centre-d))}, nil
+	return Interval{Value: at(centre), Lo: at(centre - d), Hi: at(centre + d)}, nil
 }
 
 // Mean returns the mean of x and its standard error s/sqrt(n).
@@ -164,6 +201,10 @@ type Summary struct {
 	// Direction68 is the 68% quantile of the angle between fitted and true
 	// direction (degrees).
 	Direction68 Estimate
+	// Vertex68Interval and Direction68Interval are the same quantiles
+	// with their asymmetric 1-sigma bounds (QuantileInterval), the form
+	// to report for small samples.
+	Vertex68Interval, Direction68Interval Interval
 	// EnergyBias and EnergyResolution are the mean and width of the
 	// Gaussian core of (E_fit - E_true) / E_true.
 	EnergyBias, EnergyResolution Estimate
@@ -205,16 +246,18 @@ func Summarize(fitted, truth []Sample) (Summary, error) {
 			return Summary{}, err
 		}
 	}
-	if s.Vertex68, err = Quantile(dist, 0.68); err != nil {
+	if s.Vertex68Interval, err = QuantileInterval(dist, 0.68); err != nil {
 		return Summary{}, err
 	}
+	s.Vertex68 = s.Vertex68Interval.estimate()
 	if len(angle) >= 2 {
 		if s.LongitudinalBias, err = Mean(long); err != nil {
 			return Summary{}, err
 		}
-		if s.Direction68, err = Quantile(angle, 0.68); err != nil {
+		if s.Direction68Interval, err = QuantileInterval(angle, 0.68); err != nil {
 			return Summary{}, err
 		}
+		s.Direction68 = s.Direction68Interval.estimate()
 	}
 	g, err := GaussianCore(rel, 2)
 	if err != nil {

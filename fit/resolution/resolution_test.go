@@ -132,3 +132,28 @@ func TestSummarize(t *testing.T) {
 		t.Error("zero true energy accepted")
 	}
 }
+
+// A positive, heavy-tailed small sample: the symmetric error of the 68%
+// quantile exceeds its value, the interval's lower bound stays positive
+// and inside the sample, and both agree with the order statistics.
+func TestQuantileInterval(t *testing.T) {
+	x := []float64{0.3, 0.5, 0.8, 1.0, 1.2, 1.4, 1.6, 1.7, 2.5, 9, 14, 30}
+	q, err := QuantileInterval(x, 0.68)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e, _ := Quantile(x, 0.68)
+	// n p - 1/2 = 7.66, d = sqrt(n p (1-p)) = 1.616: ranks 7.66 and
+	// 7.66 -/+ d (0-based), interpolated by hand.
+	d := math.Sqrt(12 * 0.68 * 0.32)
+	want := Interval{Value: 1.7 + 0.66*0.8, Lo: 1.6 + (7.66-d-6)*0.1, Hi: 9 + (7.66+d-9)*5}
+	if math.Abs(q.Value-want.Value) > 1e-9 || math.Abs(q.Lo-want.Lo) > 1e-9 || math.Abs(q.Hi-want.Hi) > 1e-9 {
+		t.Errorf("QuantileInterval = %v, want %v", q, want)
+	}
+	if e.Value != q.Value || math.Abs(e.Err-(q.Hi-q.Lo)/2) > 1e-12 || !(e.Err > 0.5*e.Value) {
+		t.Errorf("Quantile %v does not match the interval %v", e, q)
+	}
+	if !(q.Lo > 0) || q.String() != "2.228 +8.2/-0.62" {
+		t.Errorf("interval %v (%q)", q, q.String())
+	}
+}

@@ -91,7 +91,7 @@ func TestDemoRegression(t *testing.T) {
 		nu   int
 		pdg  int
 	}{{"qe-numu-700", phys.MuonNeu, phys.MuonMinus}, {"qe-nue-700", phys.ElectronNeu, phys.Electron}} {
-		qe, err := gen.NewQE(gen.QEConfig{Neutrino: p.nu, Energy: gen.FixedEnergy(700), Beam: r3.Vector{X: 1},
+		qe, err := gen.NewQE(gen.QEConfig{Neutrino: p.nu, Etot: gen.FixedEnergy(700), Beam: r3.Vector{X: 1},
 			Vertex: gen.InFiducial(d.cfg.Detector.Tank(), demoWall)})
 		if err != nil {
 			t.Fatal(err)

@@ -2,7 +2,8 @@
 // goes to a temporary file in the target's directory, which is flushed to
 // disk and renamed over the target only when complete, so a reader sees
 // either the old file or the whole new one, never a partial file, and a
-// failed write leaves nothing behind.
+// failed write leaves nothing behind. Write takes the content from a
+// function; Reserve and Temp serve writers that open the file by name.
 //
 // It is the one such writer of the module: sensor layouts, detector
 // descriptions, fitter tables, figures and baselines all use it. It lives
@@ -28,7 +29,7 @@ func Write(path string, write func(w io.Writer) error) (err error) {
 	}
 	defer func() {
 		if err != nil {
-			f.Close()
+			f.Close() // a second Close after finish's is harmless
 			os.Remove(f.Name())
 		}
 	}()
@@ -38,14 +39,5 @@ func Write(path string, write func(w io.Writer) error) (err error) {
 	if err = write(f); err != nil {
 		return err
 	}
-	if err = f.Sync(); err != nil {
-		return fmt.Errorf("safefile: %w", err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("safefile: %w", err)
-	}
-	if err = os.Rename(f.Name(), path); err != nil {
-		return fmt.Errorf("safefile: %w", err)
-	}
-	return nil
+	return finish(f, path)
 }

@@ -1,7 +1,6 @@
 package cherenkov
 
 import (
-	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -12,6 +11,7 @@ import (
 	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/stat"
 
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )

@@ -17,7 +17,7 @@ import (
 // apart.
 type column struct {
 	name  string
-	ptr   any // *int32, *int64, *uint32, *uint64, *float64, *bool, *string, *[]int32 or *[]float64
+	ptr   any // *int32, *int64, *uint32, *uint64, *float64, *bool, *string, *[]int32, *[]uint64 or *[]float64
 	count string
 }
 
@@ -77,6 +77,11 @@ func checksum(cols []column, buf []byte) (uint32, []byte) {
 			buf = le.AppendUint64(buf, uint64(len(*p)))
 			for _, v := range *p {
 				buf = le.AppendUint32(buf, uint32(v))
+			}
+		case *[]uint64:
+			buf = le.AppendUint64(buf, uint64(len(*p)))
+			for _, v := range *p {
+				buf = le.AppendUint64(buf, v)
 			}
 		case *[]float64:
 			buf = le.AppendUint64(buf, uint64(len(*p)))

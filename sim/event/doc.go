@@ -1,5 +1,5 @@
 // Package event holds the value types of a simulated event (Event, Truth,
-// Track, Neutrino, RunInfo) and reads and writes event files: ROOT files,
+// Track, Interaction, RunInfo) and reads and writes event files: ROOT files,
 // written and read with groot, that carry the events together with the
 // detector, the sensor model and the run settings that made them, so that
 // a file describes itself.
@@ -11,10 +11,24 @@
 //
 // Create starts a file; Writer.Write appends one event at a time (events
 // are streamed to disk basket by basket, never collected in memory);
-// Writer.Close finishes it. The file is written under a temporary name
-// (.NAME.tmp-XXXX) in the destination directory, synced and renamed to
-// NAME only by a successful Close, so a crash or an error never leaves a
-// partial file under the final name; Writer.Abort discards it.
+// Writer.Close finishes it. The file is written under the temporary name
+// .NAME.tmp in the destination directory (geom/safefile), synced and
+// renamed to NAME only by a successful Close, so a crash or an error never
+// leaves a partial file under the final name; Writer.Abort discards it.
+// A run that stops early says so before Close (Writer.Interrupt: the file
+// is flagged interrupted and the rest of its range recorded missing); a
+// generator file's accounting goes in with Writer.SetSource.
+//
+// Files are reproducible: the same events and run description give the
+// same bytes, whenever written. groot's dates of writing are replaced by
+// one date, SOURCE_DATE_EPOCH (seconds since 1970) when set, else
+// 1995-01-01 (dates.go), and the temporary name stored in the file holds
+// nothing random.
+//
+// Independent readers: the StreamerInfo record lists every class the
+// file stores, leaf classes included (streamers.go), so that readers
+// without ROOT's compiled dictionaries decode every branch; the test
+// suite reads a fresh file with jsroot and compares every value.
 //
 // Open reads the description and checks it (the detector is rebuilt with
 // geom.NewDetector, the sensor model with pmt.NewCurve and validated);
@@ -22,10 +36,12 @@
 // same Go values that were written (empty lists come back nil).
 //
 // Merge joins the shard files of one run: they must agree on the detector,
-// the sensor model and every run setting but the shard numbering and event
-// range, and their event ranges must join without gap or overlap. Events
-// are written shard by shard in increasing FirstEvent, each shard's in its
-// stored order.
+// the sensor model and every run setting but the shard's place in the run,
+// no two may share a shard index or overlap, and the set must be complete:
+// every shard present, none interrupted or missing events, the run's
+// range covered. MergeWith with MergeOptions.Partial merges an incomplete
+// set and records what is missing. Events are written shard by shard in
+// increasing FirstEvent, each shard's in its stored order.
 //
 // # Damaged files
 //
@@ -39,7 +55,14 @@
 // changed data; panics inside groot's decoder are recovered as errors as
 // well. See integrity.go and preflight.go.
 //
-// # File layout (format "conelight-events", version 1)
+// # File layout (format "conelight-events", version 2)
+//
+// Version 2 (this one) added to the events tree the interaction columns
+// process, weight, source_event and from_file and renamed nu_energy to
+// nu_etot; to the run tree run_first, run_events, interrupted, the
+// missing spans and the source accounting; the run tree is written last.
+// Open reads versions 1 and 2 (version 1's missing columns read as zero,
+// its Run span as unknown unless the file is a whole run).
 //
 // Four trees and one string object. All names are of this package's
 // design. Integer codes: PDG Monte Carlo numbering for particles; Fate
@@ -78,11 +101,15 @@
 //	pe_reflected           int64                 signal pe from reflected light
 //	triggered              bool                  trigger fired
 //	trigger_time           float64       ns      trigger time (0 if not fired)
-//	nu_pdg                 int32                 neutrino PDG code (0: no neutrino)
-//	nu_energy              float64       MeV     neutrino energy
-//	nu_dx, nu_dy, nu_dz    float64               neutrino unit direction
+//	nu_pdg                 int32                 incoming neutrino PDG code (0: no interaction)
+//	nu_etot                float64       MeV     its total energy
+//	nu_dx, nu_dy, nu_dz    float64               its unit direction
 //	nu_q2                  float64       MeV^2   four-momentum transfer squared
 //	nu_target              int32                 target PDG code (nucleus 100ZZZAAAI or 2212)
+//	process                int32                 process ID, NuHepMC numbering (0: unknown)
+//	weight                 float64               event weight (1: unweighted, 0: no interaction)
+//	source_event           int64                 event number in the generator's file
+//	from_file              bool                  the event came from a generator file
 //	nucleon_pdg ... nucleon_track                outgoing nucleon, the 11 fields of a
 //	                                             primary (scalars: x, y, z, dx, dy, dz, t, ekin,
 //	                                             parent, track)
@@ -125,11 +152,18 @@
 // Tree "run", one entry (RunInfo and the format identification):
 //
 //	format                    string              "conelight-events"
-//	format_version            int32               1
+//	format_version            int32               2
 //	seed                      uint64
 //	generator, version, water, options  string    descriptions in the simulator's words
 //	shard_index, shard_count  int32
 //	first_event, events       uint64              event numbers first_event .. first_event+events-1
+//	run_first, run_events     uint64              the whole run's event numbers (all shards)
+//	interrupted               bool                the run stopped early
+//	n_missing                 int32               number of missing spans
+//	missing_first, missing_n  uint64[n]           event numbers never simulated: first, count
+//	source_read               uint64              events read from the generator's file
+//	source_skipped            uint64              of them, not simulated
+//	skip_reasons              string              one line per skipped event
 //	trigger_threshold         int32               hits (0 with the other trigger fields: no trigger)
 //	trigger_window            float64        ns
 //	trigger_pre, trigger_post float64        ns   readout before and after the trigger time

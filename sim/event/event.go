@@ -56,27 +56,47 @@ type Truth struct {
 	Triggered   bool
 	TriggerTime float64
 
-	// Neutrino is the interaction truth of a neutrino event; the zero
-	// value when the event was not made by a neutrino generator.
-	Neutrino Neutrino
+	// Interaction is the generator's record of the interaction that made
+	// the event; the zero value when the generator made none (a particle
+	// gun).
+	Interaction Interaction
 }
 
-// Neutrino is the truth of the neutrino interaction that made an event.
-type Neutrino struct {
-	// PDG is the neutrino's PDG code (12, -12, 14, -14, ...); 0 for "no
-	// neutrino".
+// Interaction is the truth of the interaction that made an event, in the
+// same words whatever the generator (the built-in quasi-elastic generator,
+// a HepMC or NuHepMC file): the incoming neutrino, the target, the
+// outgoing nucleon, the process and the event weight. Energies MeV, Q2
+// MeV^2, cm, ns.
+type Interaction struct {
+	// PDG is the incoming neutrino's PDG code (12, -12, 14, -14, ...);
+	// 0 when the event records no interaction.
 	PDG int
-	// Energy is the neutrino energy, MeV.
-	Energy float64
-	// Dir is the neutrino's unit direction of flight.
+	// Etot is the incoming neutrino's total energy, MeV.
+	Etot float64
+	// Dir is the incoming neutrino's unit direction of flight.
 	Dir r3.Vector
-	// Q2 is the four-momentum transfer squared, MeV^2 (positive).
-	Q2 float64
 	// Target is the PDG code of the struck target: a nucleus as
-	// 100ZZZAAAI (oxygen-16 is 1000080160) or 2212 for a free proton.
+	// 100ZZZAAAI (oxygen-16 is 1000080160) or 2212 for a free proton;
+	// 0 when unknown.
 	Target int
-	// Nucleon is the outgoing nucleon (PDG 0 when there is none).
+	// Q2 is the four-momentum transfer squared, MeV^2 (positive); 0 when
+	// the generator does not give it.
+	Q2 float64
+	// Process is the process ID in the NuHepMC numbering (Gardiner,
+	// Isaacson, Pickering, arXiv:2310.13211): 200-299 quasi-elastic,
+	// 400-499 resonant, 600-699 deep inelastic; charged current X00-X49,
+	// neutral current X50-X99. 0 when unknown.
+	Process int
+	// Weight is the event weight the generator gives (NuHepMC "CV"); 1
+	// for an unweighted generator, 0 in the zero Interaction.
+	Weight float64
+	// Nucleon is the outgoing nucleon (PDG 0 when there is none). The
+	// simulator does not track nucleons; it is kept here only.
 	Nucleon phys.Particle
+	// SourceEvent is the event's own number in the generator's file;
+	// FromFile says the event came from a file (else SourceEvent is 0).
+	SourceEvent int64
+	FromFile    bool
 }
 
 // Track is the transport summary of one primary particle.
@@ -162,8 +182,8 @@ func (e *Event) Validate(nSensors int) error {
 	if !t.Triggered && t.TriggerTime != 0 {
 		return fail("Truth.TriggerTime", fmt.Sprintf("%v must be 0 when Triggered is false", t.TriggerTime))
 	}
-	if field, msg := badNeutrino(&t.Neutrino); msg != "" {
-		return fail("Truth.Neutrino."+field, msg)
+	if field, msg := badInteraction(&t.Interaction); msg != "" {
+		return fail("Truth.Interaction."+field, msg)
 	}
 	return nil
 }
@@ -236,14 +256,20 @@ func badTrack(tr *Track) (string, string) {
 	)
 }
 
-func badNeutrino(nu *Neutrino) (string, string) {
+func badInteraction(in *Interaction) (string, string) {
+	source := ""
+	if !in.FromFile && in.SourceEvent != 0 {
+		source = fmt.Sprintf("%d must be 0 when FromFile is false", in.SourceEvent)
+	}
 	if f, msg := first(
-		complaint{"PDG", badInt32(nu.PDG)}, complaint{"Energy", badFloat(nu.Energy)},
-		complaint{"Dir.X", badFloat(nu.Dir.X)}, complaint{"Dir.Y", badFloat(nu.Dir.Y)}, complaint{"Dir.Z", badFloat(nu.Dir.Z)},
-		complaint{"Q2", badFloat(nu.Q2)}, complaint{"Target", badInt32(nu.Target)},
+		complaint{"PDG", badInt32(in.PDG)}, complaint{"Etot", badFloat(in.Etot)},
+		complaint{"Dir.X", badFloat(in.Dir.X)}, complaint{"Dir.Y", badFloat(in.Dir.Y)}, complaint{"Dir.Z", badFloat(in.Dir.Z)},
+		complaint{"Target", badInt32(in.Target)}, complaint{"Q2", badFloat(in.Q2)},
+		complaint{"Process", badInt32(in.Process)}, complaint{"Weight", badFloat(in.Weight)},
+		complaint{"SourceEvent", source},
 	); msg != "" {
 		return f, msg
 	}
-	f, msg := badParticle(&nu.Nucleon)
+	f, msg := badParticle(&in.Nucleon)
 	return "Nucleon." + f, msg
 }

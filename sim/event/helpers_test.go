@@ -8,6 +8,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"testing"
 
 	"github.com/golang/geo/r3"
@@ -66,6 +67,7 @@ func testRun(first, n uint64) RunInfo {
 		ShardCount: 1,
 		FirstEvent: first,
 		Events:     n,
+		Run:        Span{First: first, N: n},
 		Trigger:    pmt.Trigger{Threshold: 10, Window: 200, PreTrigger: 400, PostTrigger: 800},
 	}
 }
@@ -128,12 +130,31 @@ func randomEvent(rng *rand.Rand, number uint64, nSensors, maxHits int) Event {
 		t.Triggered, t.TriggerTime = true, rng.Float64()*100
 	}
 	if rng.IntN(2) == 0 {
-		t.Neutrino = Neutrino{
-			PDG: phys.MuonNeu, Energy: rng.Float64() * 1000, Dir: randomVector(rng, 1).Normalize(),
+		// The fields added in format version 2 follow from the event
+		// number, so that the random draws stay those of version 1's
+		// golden file.
+		t.Interaction = Interaction{
+			PDG: phys.MuonNeu, Etot: rng.Float64() * 1000, Dir: randomVector(rng, 1).Normalize(),
 			Q2: rng.Float64() * 1e5, Target: 1000080160, Nucleon: randomParticle(rng),
+			Process: 200 + int(number%97), Weight: 1 + float64(number%13)/7,
+			SourceEvent: int64(number*3) - 5, FromFile: number%5 != 0,
+		}
+		if !t.Interaction.FromFile {
+			t.Interaction.SourceEvent = 0
 		}
 	}
 	return e
+}
+
+// asVersion1 returns events as a file of format version 1 holds them:
+// without the interaction fields that version lacked.
+func asVersion1(events []Event) []Event {
+	out := slices.Clone(events)
+	for i := range out {
+		in := &out[i].Truth.Interaction
+		in.Process, in.Weight, in.SourceEvent, in.FromFile = 0, 0, 0, false
+	}
+	return out
 }
 
 // writeFile writes events to a new file at path.
@@ -264,4 +285,13 @@ func writeForeignROOT(path string) error {
 		return err
 	}
 	return errors.Join(tw.Close(), f.Close())
+}
+
+// unsetenv removes an environment variable for the test (after a
+// t.Setenv of it, which restores it at the end).
+func unsetenv(t testing.TB, key string) {
+	t.Helper()
+	if err := os.Unsetenv(key); err != nil {
+		t.Fatal(err)
+	}
 }

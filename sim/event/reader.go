@@ -29,6 +29,9 @@ type Reader struct {
 	det    *geom.Detector
 	model  pmt.Model
 	run    RunInfo
+	// version is the file's format version, from oldestVersion to
+	// FormatVersion.
+	version int32
 }
 
 // Open opens the event file at path and reads its description. A file
@@ -69,8 +72,16 @@ func newReader(path string, src riofs.Reader, size int64) (_ *Reader, err error)
 		return nil, r.errorf("%w", err)
 	}
 
+	// The format version decides the columns: read it first, alone.
 	var rr runRecord
-	if err := r.readSingle(runTree, rr.cols()); err != nil {
+	if err := r.readColumns(runTree, rr.versionColumns(), false); err != nil {
+		return nil, err
+	}
+	if err := rr.checkVersion(); err != nil {
+		return nil, r.errorf("tree %q: %w", runTree, err)
+	}
+	r.version = rr.FormatVersion
+	if err := r.readSingle(runTree, rr.cols(r.version)); err != nil {
 		return nil, err
 	}
 	if r.run, err = rr.run(); err != nil {
@@ -95,8 +106,8 @@ func newReader(path string, src riofs.Reader, size int64) (_ *Reader, err error)
 		return nil, err
 	}
 	n := r.events.Entries()
-	if n < 0 || uint64(n) > r.run.Events {
-		return nil, r.errorf("tree %q has %d entries for a run of %d events", eventsTree, n, r.run.Events)
+	if n < 0 || uint64(n) > r.run.Events-r.run.missingCount() {
+		return nil, r.errorf("tree %q has %d entries for a run of %d events, %d of them missing", eventsTree, n, r.run.Events, r.run.missingCount())
 	}
 	r.n = int(n)
 	return r, nil
@@ -118,6 +129,13 @@ func (r *Reader) tree(name string) (rtree.Tree, error) {
 // readSingle reads the one entry of the named tree into cols and checks
 // its checksum.
 func (r *Reader) readSingle(name string, cols []column) error {
+	return r.readColumns(name, cols, true)
+}
+
+// readColumns reads the one entry of the named tree into cols, which are
+// all of its columns but the checksum if check is set, and then verifies
+// the checksum; otherwise any of them.
+func (r *Reader) readColumns(name string, cols []column, check bool) error {
 	t, err := r.tree(name)
 	if err != nil {
 		return err
@@ -126,13 +144,20 @@ func (r *Reader) readSingle(name string, cols []column) error {
 		return r.errorf("tree %q has %d entries, want 1", name, n)
 	}
 	var crc uint32
-	tr, err := rtree.NewReader(t, readVars(cols, &crc))
+	vars := readVars(cols, &crc)
+	if !check {
+		vars = vars[:len(cols)]
+	}
+	tr, err := rtree.NewReader(t, vars)
 	if err != nil {
 		return r.errorf("tree %q: %w", name, err)
 	}
 	defer tr.Close()
 	if err := tr.Read(func(rtree.RCtx) error { return nil }); err != nil {
 		return r.errorf("tree %q: %w", name, err)
+	}
+	if !check {
+		return nil
 	}
 	if sum, _ := checksum(cols, nil); sum != crc {
 		return r.errorf("tree %q: checksum mismatch (stored %08x, computed %08x): file corrupt", name, crc, sum)
@@ -169,8 +194,11 @@ func (r *Reader) Detector() *geom.Detector { return r.det }
 // Sensor returns the sensor model the events were simulated with.
 func (r *Reader) Sensor() pmt.Model { return r.model }
 
-// Run returns the run settings.
+// Run returns the run settings and record.
 func (r *Reader) Run() RunInfo { return r.run }
+
+// FormatVersion returns the file's format version (see FormatVersion).
+func (r *Reader) FormatVersion() int { return int(r.version) }
 
 // Len returns the number of events in the file.
 func (r *Reader) Len() int { return r.n }
@@ -243,7 +271,7 @@ func (r *Reader) scan(beg, end int64, fn func(Event) error) (err error) {
 		rec      eventRecord
 		crc      uint32
 		buf      []byte
-		cols     = rec.cols()
+		cols     = rec.cols(r.version)
 	)
 	defer r.recoverAs(&err, &entry, &inCaller)
 	tr, err := rtree.NewReader(r.events, readVars(cols, &crc), rtree.WithRange(beg, end))
@@ -290,6 +318,9 @@ func (r *Reader) decode(rec *eventRecord, cols []column, crc uint32, buf *[]byte
 	}
 	if !r.run.contains(e.Number) {
 		return Event{}, fmt.Errorf("event number %d outside the run's range [%d, %d]", e.Number, r.run.FirstEvent, r.run.lastEvent())
+	}
+	if m, ok := r.run.missing(e.Number); ok {
+		return Event{}, fmt.Errorf("event number %d lies in the run's missing %v", e.Number, m)
 	}
 	return e, nil
 }

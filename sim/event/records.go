@@ -2,6 +2,7 @@ package event
 
 import (
 	"fmt"
+	"strings"
 
 	"github.com/golang/geo/r3"
 
@@ -19,9 +20,11 @@ const (
 
 	// FormatName and FormatVersion identify the file layout; they are
 	// stored in the run tree. The version changes with any change of the
-	// schema in the package documentation.
+	// schema in the package documentation; Open reads every version from
+	// oldestVersion on.
 	FormatName    = "conelight-events"
-	FormatVersion = 1
+	FormatVersion = 2
+	oldestVersion = 1
 )
 
 // particleColumns holds one phys.Particle per entry (the neutrino's nucleon).
@@ -134,16 +137,25 @@ type eventRecord struct {
 	Triggered                                               bool
 	TriggerTime                                             float64
 
-	NuPDG, NuTarget                  int32
-	NuEnergy, NuDX, NuDY, NuDZ, NuQ2 float64
-	Nucleon                          particleColumns
+	NuPDG, NuTarget, Process       int32
+	NuEtot, NuDX, NuDY, NuDZ, NuQ2 float64
+	Weight                         float64
+	SourceEvent                    int64
+	FromFile                       bool
+	Nucleon                        particleColumns
 
 	NHit               int32
 	HitSensor          []int32
 	HitTime, HitCharge []float64
 }
 
-func (r *eventRecord) cols() []column {
+// cols returns the columns of format version v (1 or 2). Version 1 had
+// nu_energy for nu_etot and no process, weight or source columns.
+func (r *eventRecord) cols(v int32) []column {
+	etot := "nu_etot"
+	if v == 1 {
+		etot = "nu_energy"
+	}
 	cols := []column{{name: "number", ptr: &r.Number}}
 	cols = append(cols, r.Primaries.cols("primary_", "n_primary")...)
 	cols = append(cols,
@@ -164,13 +176,21 @@ func (r *eventRecord) cols() []column {
 		column{name: "triggered", ptr: &r.Triggered},
 		column{name: "trigger_time", ptr: &r.TriggerTime},
 		column{name: "nu_pdg", ptr: &r.NuPDG},
-		column{name: "nu_energy", ptr: &r.NuEnergy},
+		column{name: etot, ptr: &r.NuEtot},
 		column{name: "nu_dx", ptr: &r.NuDX},
 		column{name: "nu_dy", ptr: &r.NuDY},
 		column{name: "nu_dz", ptr: &r.NuDZ},
 		column{name: "nu_q2", ptr: &r.NuQ2},
 		column{name: "nu_target", ptr: &r.NuTarget},
 	)
+	if v >= 2 {
+		cols = append(cols,
+			column{name: "process", ptr: &r.Process},
+			column{name: "weight", ptr: &r.Weight},
+			column{name: "source_event", ptr: &r.SourceEvent},
+			column{name: "from_file", ptr: &r.FromFile},
+		)
+	}
 	cols = append(cols, r.Nucleon.cols("nucleon_")...)
 	return append(cols,
 		column{name: "n_hit", ptr: &r.NHit},
@@ -202,11 +222,12 @@ func (r *eventRecord) set(e *Event) {
 	r.PEDirect, r.PEScattered, r.PEReflected = int64(t.PEDirect), int64(t.PEScattered), int64(t.PEReflected)
 	r.Triggered, r.TriggerTime = t.Triggered, t.TriggerTime
 
-	nu := &t.Neutrino
-	r.NuPDG, r.NuTarget = int32(nu.PDG), int32(nu.Target)
-	r.NuEnergy, r.NuQ2 = nu.Energy, nu.Q2
-	r.NuDX, r.NuDY, r.NuDZ = nu.Dir.X, nu.Dir.Y, nu.Dir.Z
-	r.Nucleon.set(&nu.Nucleon)
+	in := &t.Interaction
+	r.NuPDG, r.NuTarget, r.Process = int32(in.PDG), int32(in.Target), int32(in.Process)
+	r.NuEtot, r.NuQ2, r.Weight = in.Etot, in.Q2, in.Weight
+	r.NuDX, r.NuDY, r.NuDZ = in.Dir.X, in.Dir.Y, in.Dir.Z
+	r.SourceEvent, r.FromFile = in.SourceEvent, in.FromFile
+	r.Nucleon.set(&in.Nucleon)
 
 	n = len(e.Hits)
 	r.NHit = int32(n)
@@ -241,9 +262,11 @@ func (r *eventRecord) event() (Event, error) {
 			PEReflected:    int(r.PEReflected),
 			Triggered:      r.Triggered,
 			TriggerTime:    r.TriggerTime,
-			Neutrino: Neutrino{
-				PDG: int(r.NuPDG), Energy: r.NuEnergy, Q2: r.NuQ2, Target: int(r.NuTarget),
+			Interaction: Interaction{
+				PDG: int(r.NuPDG), Etot: r.NuEtot, Q2: r.NuQ2, Target: int(r.NuTarget),
 				Dir:     r3.Vector{X: r.NuDX, Y: r.NuDY, Z: r.NuDZ},
+				Process: int(r.Process), Weight: r.Weight,
+				SourceEvent: r.SourceEvent, FromFile: r.FromFile,
 				Nucleon: r.Nucleon.particle(),
 			},
 		},
@@ -401,34 +424,65 @@ type runRecord struct {
 	Generator, Version, Water, Options string
 	ShardIndex, ShardCount             int32
 	FirstEvent, Events                 uint64
+	RunFirst, RunEvents                uint64
+	Interrupted                        bool
+	NMissing                           int32
+	MissingFirst, MissingN             []uint64
+	SourceRead, SourceSkipped          uint64
+	SkipReasons                        string
 	TrigThreshold                      int32
 	TrigWindow, TrigPre, TrigPost      float64
 	KeepUntriggered                    bool
 }
 
-// runRangeColumns are the run columns that may differ between shards of
-// one run.
-var runRangeColumns = []string{"shard_index", "shard_count", "first_event", "events"}
+// runShardColumns are the run columns that may differ between shards of
+// one run: their place in it and what became of it.
+var runShardColumns = []string{"shard_index", "first_event", "events", "interrupted",
+	"n_missing", "missing_first", "missing_n", "source_read", "source_skipped", "skip_reasons"}
 
-func (r *runRecord) cols() []column {
+// versionColumns are the columns that identify the format, the first two
+// of every version's run tree.
+func (r *runRecord) versionColumns() []column {
 	return []column{
 		{name: "format", ptr: &r.Format},
 		{name: "format_version", ptr: &r.FormatVersion},
-		{name: "seed", ptr: &r.Seed},
-		{name: "generator", ptr: &r.Generator},
-		{name: "version", ptr: &r.Version},
-		{name: "water", ptr: &r.Water},
-		{name: "options", ptr: &r.Options},
-		{name: "shard_index", ptr: &r.ShardIndex},
-		{name: "shard_count", ptr: &r.ShardCount},
-		{name: "first_event", ptr: &r.FirstEvent},
-		{name: "events", ptr: &r.Events},
-		{name: "trigger_threshold", ptr: &r.TrigThreshold},
-		{name: "trigger_window", ptr: &r.TrigWindow},
-		{name: "trigger_pre", ptr: &r.TrigPre},
-		{name: "trigger_post", ptr: &r.TrigPost},
-		{name: "keep_untriggered", ptr: &r.KeepUntriggered},
 	}
+}
+
+// cols returns the columns of format version v (1 or 2). Version 1 had
+// no run range, interruption, missing spans or source accounting.
+func (r *runRecord) cols(v int32) []column {
+	cols := append(r.versionColumns(),
+		column{name: "seed", ptr: &r.Seed},
+		column{name: "generator", ptr: &r.Generator},
+		column{name: "version", ptr: &r.Version},
+		column{name: "water", ptr: &r.Water},
+		column{name: "options", ptr: &r.Options},
+		column{name: "shard_index", ptr: &r.ShardIndex},
+		column{name: "shard_count", ptr: &r.ShardCount},
+		column{name: "first_event", ptr: &r.FirstEvent},
+		column{name: "events", ptr: &r.Events},
+	)
+	if v >= 2 {
+		cols = append(cols,
+			column{name: "run_first", ptr: &r.RunFirst},
+			column{name: "run_events", ptr: &r.RunEvents},
+			column{name: "interrupted", ptr: &r.Interrupted},
+			column{name: "n_missing", ptr: &r.NMissing},
+			column{name: "missing_first", ptr: &r.MissingFirst, count: "n_missing"},
+			column{name: "missing_n", ptr: &r.MissingN, count: "n_missing"},
+			column{name: "source_read", ptr: &r.SourceRead},
+			column{name: "source_skipped", ptr: &r.SourceSkipped},
+			column{name: "skip_reasons", ptr: &r.SkipReasons},
+		)
+	}
+	return append(cols,
+		column{name: "trigger_threshold", ptr: &r.TrigThreshold},
+		column{name: "trigger_window", ptr: &r.TrigWindow},
+		column{name: "trigger_pre", ptr: &r.TrigPre},
+		column{name: "trigger_post", ptr: &r.TrigPost},
+		column{name: "keep_untriggered", ptr: &r.KeepUntriggered},
+	)
 }
 
 func (r *runRecord) set(ri *RunInfo) {
@@ -437,29 +491,57 @@ func (r *runRecord) set(ri *RunInfo) {
 		Seed: ri.Seed, Generator: ri.Generator, Version: ri.Version, Water: ri.Water, Options: ri.Options,
 		ShardIndex: int32(ri.ShardIndex), ShardCount: int32(ri.ShardCount),
 		FirstEvent: ri.FirstEvent, Events: ri.Events,
+		RunFirst: ri.Run.First, RunEvents: ri.Run.N,
+		Interrupted: ri.Interrupted, NMissing: int32(len(ri.Missing)),
+		MissingFirst: make([]uint64, len(ri.Missing)), MissingN: make([]uint64, len(ri.Missing)),
+		SourceRead: ri.Source.Read, SourceSkipped: ri.Source.Skipped,
+		SkipReasons:   strings.Join(ri.Source.Reasons, "\n"),
 		TrigThreshold: int32(ri.Trigger.Threshold), TrigWindow: ri.Trigger.Window,
 		TrigPre: ri.Trigger.PreTrigger, TrigPost: ri.Trigger.PostTrigger,
 		KeepUntriggered: ri.KeepUntriggered,
 	}
+	for i, m := range ri.Missing {
+		r.MissingFirst[i], r.MissingN[i] = m.First, m.N
+	}
 }
 
-// run checks the format identification and rebuilds the RunInfo.
-func (r *runRecord) run() (RunInfo, error) {
+// checkVersion checks the format identification.
+func (r *runRecord) checkVersion() error {
 	if r.Format != FormatName {
-		return RunInfo{}, fmt.Errorf("run format = %q, not %q: not a conelight event file", r.Format, FormatName)
+		return fmt.Errorf("run format = %q, not %q: not a conelight event file", r.Format, FormatName)
 	}
-	if r.FormatVersion != FormatVersion {
-		return RunInfo{}, fmt.Errorf("format_version = %d; this reader knows version %d only", r.FormatVersion, FormatVersion)
+	if r.FormatVersion < oldestVersion || r.FormatVersion > FormatVersion {
+		return fmt.Errorf("format_version = %d; this reader knows versions %d to %d", r.FormatVersion, oldestVersion, FormatVersion)
 	}
+	return nil
+}
+
+// run rebuilds the RunInfo; checkVersion has passed.
+func (r *runRecord) run() (RunInfo, error) {
 	ri := RunInfo{
 		Seed: r.Seed, Generator: r.Generator, Version: r.Version, Water: r.Water, Options: r.Options,
 		ShardIndex: int(r.ShardIndex), ShardCount: int(r.ShardCount),
 		FirstEvent: r.FirstEvent, Events: r.Events,
+		Run:         Span{First: r.RunFirst, N: r.RunEvents},
+		Interrupted: r.Interrupted,
+		Source:      SourceStats{Read: r.SourceRead, Skipped: r.SourceSkipped},
 		Trigger: pmt.Trigger{
 			Threshold: int(r.TrigThreshold), Window: r.TrigWindow,
 			PreTrigger: r.TrigPre, PostTrigger: r.TrigPost,
 		},
 		KeepUntriggered: r.KeepUntriggered,
+	}
+	if !allEqual(int(r.NMissing), len(r.MissingFirst), len(r.MissingN)) {
+		return RunInfo{}, fmt.Errorf("missing arrays disagree with n_missing = %d", r.NMissing)
+	}
+	for i := range r.MissingFirst {
+		ri.Missing = append(ri.Missing, Span{First: r.MissingFirst[i], N: r.MissingN[i]})
+	}
+	if r.FormatVersion == 1 && ri.ShardCount == 1 {
+		ri.Run = Span{First: ri.FirstEvent, N: ri.Events}
+	}
+	if r.SkipReasons != "" {
+		ri.Source.Reasons = strings.Split(r.SkipReasons, "\n")
 	}
 	return ri, ri.Validate()
 }

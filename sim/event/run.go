@@ -3,6 +3,7 @@ package event
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/conelight/conelight/pmt"
 )
@@ -36,6 +37,26 @@ type RunInfo struct {
 	// unless KeepUntriggered).
 	FirstEvent, Events uint64
 
+	// Run is the event range of the whole run that the file is a part
+	// of: every shard of a run records the same Run, so that a merge can
+	// name a missing first or last shard. For a whole run it equals
+	// [FirstEvent, FirstEvent+Events). Zero in files of format version 1,
+	// which do not record it.
+	Run Span
+
+	// Interrupted says the run stopped before simulating its whole range
+	// (Writer.Interrupt), or that a merged file contains such a shard.
+	Interrupted bool
+	// Missing lists the event numbers of [FirstEvent, FirstEvent+Events)
+	// that were never simulated: the unfinished tail of an interrupted
+	// run, the shards absent from a partial merge (MergeOptions.Partial).
+	// Sorted, disjoint and non-empty spans; nil for a complete file.
+	Missing []Span
+
+	// Source accounts for the events read from a generator's file (zero
+	// for a built-in generator).
+	Source SourceStats
+
 	// Trigger is the hit-multiplicity trigger; the zero Trigger means
 	// none was applied.
 	Trigger pmt.Trigger
@@ -44,8 +65,38 @@ type RunInfo struct {
 	KeepUntriggered bool
 }
 
-// Validate checks the shard numbering, the event range and the trigger.
-// The error names the field and its value.
+// Span is a range of event numbers: First .. First+N-1.
+type Span struct {
+	First, N uint64
+}
+
+// Last is the last event number of a non-empty span.
+func (s Span) Last() uint64 { return s.First + s.N - 1 }
+
+func (s Span) String() string {
+	if s.N == 0 {
+		return fmt.Sprintf("no events at %d", s.First)
+	}
+	return fmt.Sprintf("events %d to %d", s.First, s.Last())
+}
+
+// SourceStats counts the events a run read from a generator's file.
+type SourceStats struct {
+	// Read is the number of events read from the file; Skipped how many
+	// of them were not simulated, each for the reason in the matching
+	// line of Reasons ("event 17 (line 345): no particle the simulator
+	// tracks"). Read counts the skipped events too.
+	Read, Skipped uint64
+	Reasons       []string
+}
+
+// Complete reports whether the file holds every event of its range
+// (trigger permitting): not interrupted and nothing missing.
+func (r RunInfo) Complete() bool { return !r.Interrupted && len(r.Missing) == 0 }
+
+// Validate checks the shard numbering, the event ranges, the missing
+// spans, the source accounting and the trigger. The error names the
+// field and its value.
 func (r *RunInfo) Validate() error {
 	switch {
 	case r.ShardCount < 1 || r.ShardCount > math.MaxInt32:
@@ -56,6 +107,31 @@ func (r *RunInfo) Validate() error {
 		return fmt.Errorf("event: RunInfo.Events = 0 must be at least 1")
 	case r.FirstEvent > math.MaxUint64-r.Events+1:
 		return fmt.Errorf("event: RunInfo.FirstEvent = %d with Events = %d overflows the event number", r.FirstEvent, r.Events)
+	}
+	if r.Run != (Span{}) && (r.Run.N == 0 || r.Run.First > r.FirstEvent || r.FirstEvent-r.Run.First > r.Run.N-r.Events) {
+		return fmt.Errorf("event: RunInfo.Run = %v does not contain the file's range FirstEvent = %d, Events = %d", r.Run, r.FirstEvent, r.Events)
+	}
+	next := r.FirstEvent
+	for i, m := range r.Missing {
+		if m.N == 0 || m.First < next || !r.contains(m.First) || !r.contains(m.Last()) || m.Last() < m.First {
+			return fmt.Errorf("event: RunInfo.Missing[%d] = %v: want non-empty, sorted, disjoint spans inside [%d, %d]",
+				i, m, r.FirstEvent, r.lastEvent())
+		}
+		next = m.Last() + 1
+		if next == 0 && i < len(r.Missing)-1 { // the span ended at the largest event number
+			return fmt.Errorf("event: RunInfo.Missing[%d] = %v: spans after the last event number", i+1, r.Missing[i+1])
+		}
+	}
+	if r.Source.Skipped > r.Source.Read {
+		return fmt.Errorf("event: RunInfo.Source.Skipped = %d exceeds Source.Read = %d", r.Source.Skipped, r.Source.Read)
+	}
+	if uint64(len(r.Source.Reasons)) != r.Source.Skipped {
+		return fmt.Errorf("event: RunInfo.Source.Reasons has %d lines for Skipped = %d events", len(r.Source.Reasons), r.Source.Skipped)
+	}
+	for i, s := range r.Source.Reasons {
+		if strings.ContainsAny(s, "\n\r") {
+			return fmt.Errorf("event: RunInfo.Source.Reasons[%d] = %q must be one line", i, s)
+		}
 	}
 	if r.Trigger.Threshold > math.MaxInt32 {
 		return fmt.Errorf("event: RunInfo.Trigger.Threshold = %d does not fit the file's 32-bit column", r.Trigger.Threshold)
@@ -75,3 +151,22 @@ func (r *RunInfo) contains(n uint64) bool {
 
 // lastEvent is the last event number of the range.
 func (r *RunInfo) lastEvent() uint64 { return r.FirstEvent + r.Events - 1 }
+
+// missingCount is the number of event numbers in Missing.
+func (r *RunInfo) missingCount() uint64 {
+	var n uint64
+	for _, m := range r.Missing {
+		n += m.N
+	}
+	return n
+}
+
+// missing returns the missing span holding event number n, if any.
+func (r *RunInfo) missing(n uint64) (Span, bool) {
+	for _, m := range r.Missing {
+		if n >= m.First && n-m.First < m.N {
+			return m, true
+		}
+	}
+	return Span{}, false
+}

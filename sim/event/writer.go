@@ -1,16 +1,15 @@
 package event
 
 import (
-	"errors"
 	"fmt"
 	"os"
-	"path/filepath"
 
 	"go-hep.org/x/hep/groot"
 	"go-hep.org/x/hep/groot/riofs"
 	"go-hep.org/x/hep/groot/rtree"
 
 	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/pmt"
 )
 
@@ -22,18 +21,23 @@ const eventBasketSize = 128 << 10
 
 // Writer streams events into a new event file. Events go to disk basket by
 // basket as they are written; none are held in memory. The file is built
-// under a temporary name in the destination directory and appears under
-// its final name only when Close succeeds, so a crash or an error never
-// leaves a partial file under that name.
+// under the temporary name .NAME.tmp in the destination directory
+// (safefile.Reserve) and appears under its final name only when Close
+// succeeds, so a crash or an error never leaves a partial file under that
+// name. The run tree is written by Close, so that it records how the run
+// ended (Interrupt, SetSource).
 //
 // A Writer is not safe for concurrent use.
 type Writer struct {
-	path, tmp string
-	file      *riofs.File
-	tree      rtree.Writer
-	run       RunInfo
-	nSensors  int
-	n         int
+	path     string
+	tmp      *safefile.Temp
+	date     uint32 // ROOT date stamped on every record (dates.go)
+	file     *riofs.File
+	tree     rtree.Writer
+	run      RunInfo
+	nSensors int
+	n        int
+	last     uint64 // largest event number written (valid when n > 0)
 
 	rec  eventRecord
 	cols []column
@@ -72,17 +76,15 @@ func create(path string, det *geom.Detector, sensor pmt.Model, run RunInfo, chun
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
 
-	dir, base := filepath.Split(path)
-	tmpf, err := os.CreateTemp(dir, "."+base+".tmp-*")
+	date, err := recordDate()
 	if err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
-	tmp := tmpf.Name()
-	if err := tmpf.Close(); err != nil {
-		os.Remove(tmp)
+	tmp, err := safefile.Reserve(path)
+	if err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
-	w := &Writer{path: path, tmp: tmp, run: run, nSensors: det.NumSensors(), chunk: chunk}
+	w := &Writer{path: path, tmp: tmp, date: date, run: run, nSensors: det.NumSensors(), chunk: chunk}
 	defer func() {
 		if p := recover(); p != nil {
 			err = fmt.Errorf("event: Create %s: ROOT writer failed: %v", path, p)
@@ -91,10 +93,10 @@ func create(path string, det *geom.Detector, sensor pmt.Model, run RunInfo, chun
 			w.Abort()
 		}
 	}()
-	if w.file, err = groot.Create(tmp); err != nil {
+	if w.file, err = groot.Create(tmp.Name()); err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
-	if w.begin, err = fileSize(tmp); err != nil {
+	if w.begin, err = fileSize(tmp.Name()); err != nil {
 		return nil, fmt.Errorf("event: Create %s: %w", path, err)
 	}
 
@@ -102,18 +104,16 @@ func create(path string, det *geom.Detector, sensor pmt.Model, run RunInfo, chun
 	dr.set(det)
 	var sr sensorRecord
 	sr.set(&sensor)
-	var rr runRecord
-	rr.set(&run)
 	for _, t := range [...]struct {
 		name string
 		cols []column
-	}{{runTree, rr.cols()}, {detectorTree, dr.cols()}, {sensorTree, sr.cols()}} {
+	}{{detectorTree, dr.cols()}, {sensorTree, sr.cols()}} {
 		if err := writeSingle(w.file, t.name, t.cols); err != nil {
 			return nil, fmt.Errorf("event: Create %s: %w", path, err)
 		}
 	}
 
-	w.cols = w.rec.cols()
+	w.cols = w.rec.cols(FormatVersion)
 	w.tree, err = rtree.NewWriter(w.file, eventsTree, writeVars(w.cols, &w.crc),
 		rtree.WithTitle("conelight events"), rtree.WithBasketSize(eventBasketSize))
 	if err != nil {
@@ -146,8 +146,10 @@ func writeSingle(f *riofs.File, name string, cols []column) error {
 }
 
 // Write appends e to the file. e must pass Validate for the detector's
-// sensor count and its Number must lie in the run's event range; an event
-// that does not is rejected with an error and the Writer stays usable.
+// sensor count, its Number must lie in the run's event range, outside
+// the run's missing spans, and exceed the Number of the event written
+// before (so that no event is stored twice); an event that does not is
+// rejected with an error and the Writer stays usable.
 // A failure of the file itself leaves the Writer unusable: Close then
 // reports the error and removes the temporary file.
 func (w *Writer) Write(e *Event) (err error) {
@@ -164,6 +166,12 @@ func (w *Writer) Write(e *Event) (err error) {
 		return fmt.Errorf("event: event Number = %d outside the run's range [%d, %d] in %s",
 			e.Number, w.run.FirstEvent, w.run.lastEvent(), w.path)
 	}
+	if w.n > 0 && e.Number <= w.last {
+		return fmt.Errorf("event: event Number = %d after event %d in %s: numbers must increase", e.Number, w.last, w.path)
+	}
+	if m, ok := w.run.missing(e.Number); ok {
+		return fmt.Errorf("event: event Number = %d lies in the run's missing %v in %s", e.Number, m, w.path)
+	}
 	defer func() {
 		if p := recover(); p != nil {
 			err = fmt.Errorf("ROOT writer failed: %v", p)
@@ -178,8 +186,46 @@ func (w *Writer) Write(e *Event) (err error) {
 	_, err = w.tree.Write()
 	if err == nil {
 		w.n++
+		w.last = e.Number
 	}
 	return err
+}
+
+// Interrupt records that the run stopped after simulating the first done
+// event numbers of its range (written or dropped by the trigger): the
+// file is flagged interrupted and the rest of the range recorded missing
+// (RunInfo.Interrupted, RunInfo.Missing). Call it before Close; events
+// already written must lie in the done part.
+func (w *Writer) Interrupt(done uint64) error {
+	switch {
+	case w.done:
+		return fmt.Errorf("event: Interrupt of %s after Close or Abort", w.path)
+	case done >= w.run.Events:
+		return fmt.Errorf("event: Interrupt of %s: done = %d, but the range has only %d events", w.path, done, w.run.Events)
+	case w.n > 0 && w.last >= w.run.FirstEvent+done:
+		return fmt.Errorf("event: Interrupt of %s: done = %d, but event %d was written", w.path, done, w.last)
+	case len(w.run.Missing) > 0 || w.run.Interrupted:
+		return fmt.Errorf("event: Interrupt of %s: the run already records missing events", w.path)
+	}
+	w.run.Interrupted = true
+	w.run.Missing = []Span{{First: w.run.FirstEvent + done, N: w.run.Events - done}}
+	return nil
+}
+
+// SetSource records the accounting of the generator's source file
+// (RunInfo.Source): events read, and those skipped with one reason line
+// each. Call it before Close.
+func (w *Writer) SetSource(s SourceStats) error {
+	if w.done {
+		return fmt.Errorf("event: SetSource of %s after Close or Abort", w.path)
+	}
+	run := w.run
+	run.Source = s
+	if err := run.Validate(); err != nil {
+		return fmt.Errorf("event: SetSource of %s: %w", w.path, err)
+	}
+	w.run = run
+	return nil
 }
 
 // Len returns the number of events written so far.
@@ -206,11 +252,17 @@ func (w *Writer) Close() (err error) {
 			err = fmt.Errorf("ROOT writer failed: %v", p)
 		}
 		if err != nil {
-			os.Remove(w.tmp)
+			w.tmp.Abort()
 			err = fmt.Errorf("event: Close of %s: %w", w.path, err)
 		}
 	}()
 	if err := w.tree.Close(); err != nil {
+		w.file.Close()
+		return err
+	}
+	var rr runRecord
+	rr.set(&w.run)
+	if err := writeSingle(w.file, runTree, rr.cols(FormatVersion)); err != nil {
 		w.file.Close()
 		return err
 	}
@@ -221,36 +273,28 @@ func (w *Writer) Close() (err error) {
 	if err := w.file.Close(); err != nil {
 		return err
 	}
-	if err := syncFile(w.tmp); err != nil {
-		return err
+	if err := stampFile(w.tmp.Name(), w.date); err != nil {
+		return fmt.Errorf("stamping dates: %w", err)
 	}
-	if err := os.Chmod(w.tmp, 0o644); err != nil {
-		return err
-	}
-	if err := os.Rename(w.tmp, w.path); err != nil {
-		return err
-	}
-	// Make the rename durable. Some file systems cannot sync a
-	// directory; the file is complete either way, so that is not an error.
-	if d, err := os.Open(filepath.Dir(w.path)); err == nil {
-		d.Sync()
-		d.Close()
-	}
-	return nil
+	return w.tmp.Commit()
 }
 
-// putIntegrity stores the checksums of everything written so far (groot
-// writes straight to the file, so the bytes on disk are the final ones).
+// putIntegrity stamps the dates of the records written so far and stores
+// their checksums (groot writes straight to the file, so the bytes on
+// disk are the final ones).
 func (w *Writer) putIntegrity() error {
-	end, err := fileSize(w.tmp)
+	end, err := fileSize(w.tmp.Name())
 	if err != nil {
 		return err
 	}
-	f, err := os.Open(w.tmp)
+	f, err := os.OpenFile(w.tmp.Name(), os.O_RDWR, 0)
 	if err != nil {
 		return err
 	}
 	defer f.Close()
+	if err := stampRecords(f, rootBegin, end, w.date, false); err != nil {
+		return fmt.Errorf("stamping dates: %w", err)
+	}
 	return putIntegrity(w.file, f, w.begin, end, w.chunk)
 }
 
@@ -260,16 +304,6 @@ func fileSize(name string) (int64, error) {
 		return 0, err
 	}
 	return fi.Size(), nil
-}
-
-// syncFile flushes the named file's contents to stable storage (groot
-// does not expose its descriptor, so a second one is opened).
-func syncFile(name string) error {
-	f, err := os.OpenFile(name, os.O_RDWR, 0)
-	if err != nil {
-		return err
-	}
-	return errors.Join(f.Sync(), f.Close())
 }
 
 // Abort abandons the file: the temporary file is removed and nothing
@@ -286,7 +320,10 @@ func (w *Writer) Abort() error {
 			w.file.Close()
 		}()
 	}
-	if err := os.Remove(w.tmp); err != nil && !errors.Is(err, os.ErrNotExist) {
+	if w.tmp == nil {
+		return nil
+	}
+	if err := w.tmp.Abort(); err != nil {
 		return fmt.Errorf("event: Abort %s: %w", w.path, err)
 	}
 	return nil

@@ -23,13 +23,13 @@ func benchGenerate(b *testing.B, g Generator) {
 }
 
 func BenchmarkGun(b *testing.B) {
-	g, _ := NewGun(GunConfig{Particles: []GunParticle{{PDG: phys.Electron, Energy: UniformEnergy(5, 50), Direction: Isotropic()}},
+	g, _ := NewGun(GunConfig{Particles: []GunParticle{{PDG: phys.Electron, Ekin: UniformEnergy(5, 50), Direction: Isotropic()}},
 		Vertex: InFiducial(geom.DemoTank(), 200)})
 	benchGenerate(b, g)
 }
 
 func benchQE(b *testing.B, nu int, e Spectrum, tg Target, flux bool) {
-	q, err := NewQE(QEConfig{Neutrino: nu, Energy: e, Target: tg, FluxWeighted: flux, Beam: r3.Vector{Z: 1}, Vertex: AtPoint(r3.Vector{})})
+	q, err := NewQE(QEConfig{Neutrino: nu, Etot: e, Target: tg, FluxWeighted: flux, Beam: r3.Vector{Z: 1}, Vertex: AtPoint(r3.Vector{})})
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 // Package gen makes the primary particles of simulated events: a particle
 // gun, charged-current quasi-elastic (CCQE) neutrino interactions on water,
-// and events read from HepMC2 ASCII files. Units: MeV, MeV/c, cm, ns; Q2 in
+// and events read from HepMC3 and HepMC2 text files (with the NuHepMC
+// conventions of neutrino generators). Units: MeV, MeV/c, cm, ns; Q2 in
 // MeV^2; cross-sections in cm^2.
 //
 // Every generator satisfies Generator: Generate(number, rng, dst) appends
@@ -79,17 +80,50 @@
 // angle is phys.QuasiElasticEnergy (and phys.QuasiElasticEnergyOf), in
 // sim/phys so that the reconstruction can use it without this package.
 //
-// # HepMC2 event files
+// # HepMC event files
 //
-// OpenHepMC, ReadHepMC, NewHepMC read HepMC2 ASCII files (the IO_GenEvent
-// listing, and IO_Ascii and IO_ExtendedAscii) through go-hep.org/x/hep/hepmc.
-// A first pass records the byte range of each event; Generate(number, ...)
-// decodes event number on demand, so memory stays bounded and any worker
-// can make any event. Final-state (status 1) e-, e+, mu-, mu+ and photons
-// become primaries; other final-state particles are counted in
-// Info.Skipped. Units follow the event's U line, else GeV and mm. Malformed
-// input gives an error naming the file and the event, never a panic: the
-// decoder's panics are recovered, and its reading goroutine is drained.
-// HepMCOptions.Vertex can move each event to a vertex drawn from a
-// VertexDist.
+// OpenHepMC, ReadHepMC, NewHepMC read HepMC3's own text format (the Asciiv3
+// listing) and the HepMC2 text format (IO_GenEvent), including HepMC2
+// files written by the HepMC3 library (whose E line, for an event without
+// weights, ends in a glued "N 0"). A first pass records the byte range and
+// first line of each event and the run information (weight names) of each
+// Asciiv3 listing; Generate(number, ...) parses event number on demand, so
+// memory stays bounded and any worker can make any event. The parser is
+// this package's own: every count written in the file (vertices,
+// particles, weights, random states, flow entries, weight names) is only
+// compared with what the event holds and never sizes an allocation.
+// Particle ids or barcodes and vertex ids used twice are errors. Errors
+// name the file, the line, the event (index and the number written in the
+// file) and quote the bad token.
+//
+// Positions. A vertex's position is the one written for it; an Asciiv3
+// vertex without one (and the vertex a particle of positive mother id
+// comes from, which Asciiv3 does not write) takes that of the vertex its
+// first incoming particle comes from, else the event's position (the E
+// line's "@"), as the HepMC3 library does. Units follow the event's U line,
+// else HepMC's defaults GeV and mm; times are c t in length units.
+//
+// Primaries. Final-state (status 1) e-, e+, mu-, mu+ and photons become
+// primaries, in the order of the file; other final-state particles are
+// counted in Info.Skipped (neutrinos also in Info.SkippedNeutrinos). The
+// kinetic energy comes from |p| and the PDG mass.
+//
+// NuHepMC (Gardiner, Isaacson, Pickering, arXiv:2310.13211, versions 1.0,
+// 0.9 and earlier). The incoming neutrino is the status-4 neutrino; the
+// target the status-11 particle (1.0 and 0.9), else an incoming nucleus
+// (earlier files mark it status 4 or with a generator's own code), else
+// another status-4 particle; the outgoing nucleon the final-state proton
+// or neutron of largest momentum; Q2 = -(k - k')^2 from the neutrino and
+// the final-state charged lepton of its flavour (or the neutrino itself,
+// for neutral current) of largest energy. The process ID is the event
+// attribute "signal_process_id" (0.9, 1.0) or "ProcID" (earlier), or in a
+// HepMC2 file the E line's signal process ID; the weight is the one named
+// "CV" (run information W line in Asciiv3, N line in HepMC2), else the
+// first. The lab position "lab_pos" (1.0) or "LabPos" (earlier), in the
+// event's length unit with an optional fourth entry, the time in seconds,
+// goes into Info.LabPos and Info.LabTime, and the event is moved so that
+// its primary vertex (status 1; in HepMC2 the signal vertex, else the
+// vertex of id 1, else the first) lands on it. HepMCOptions.Vertex, when
+// set, moves the primary vertex to a point drawn from a VertexDist
+// instead.
 package gen

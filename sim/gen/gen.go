@@ -49,19 +49,22 @@ func (r Reaction) String() string {
 const Oxygen16Code = 1000080160
 
 // Info is the generator truth of one event. Neutrino fields are zero when
-// Reaction is NoReaction. Energies MeV, momenta MeV/c, Q2 MeV^2, cm, ns.
+// the generator made no neutrino interaction. Energies MeV, momenta MeV/c,
+// Q2 MeV^2, cm, ns.
 type Info struct {
 	Reaction Reaction
 
-	// Neutrino interaction truth.
-	Neutrino       int       // PDG code of the incoming neutrino
-	NeutrinoEnergy float64   // MeV
-	NeutrinoDir    r3.Vector // unit
+	// Neutrino interaction truth (QE, and files that carry an incoming
+	// neutrino).
+	Neutrino     int       // PDG code of the incoming neutrino
+	NeutrinoEtot float64   // its total energy, MeV
+	NeutrinoDir  r3.Vector // unit
 	// Target is the PDG code of what was hit: phys.ProtonCode for the
 	// free hydrogen of water (phys.NeutronCode for the FreeNucleon study
-	// target), Oxygen16Code for a nucleon bound in oxygen.
+	// target), Oxygen16Code for a nucleon bound in oxygen; for a file,
+	// the target particle it names (a nucleus as 10LZZZAAAI).
 	Target int
-	// StruckNucleon is the PDG code of the nucleon that took part.
+	// StruckNucleon is the PDG code of the nucleon that took part (QE).
 	StruckNucleon int
 	// FermiMomentum is the struck nucleon's momentum before the
 	// collision (zero for a free nucleon); BindingEnergy the energy
@@ -70,16 +73,42 @@ type Info struct {
 	BindingEnergy float64
 	// Q2 = -(k_nu - k_lepton)^2, MeV^2.
 	Q2 float64
-	// FinalNucleon is the outgoing nucleon. The simulator does not track
-	// nucleons, so it is kept here only and not among the primaries.
+	// FinalNucleon is the outgoing nucleon (for a file, the final-state
+	// proton or neutron of largest momentum). The simulator does not
+	// track nucleons, so it is kept here only and not among the
+	// primaries.
 	FinalNucleon phys.Particle
 
-	// Event-file truth (HepMC).
+	// Event-file truth (HepMC2, HepMC3, NuHepMC).
 	SourceEvent int // event number written in the file
+	// Process is the file's process ID: the NuHepMC "signal_process_id"
+	// (or pre-1.0 "ProcID") attribute, or the signal process ID of a
+	// HepMC2 E line; 0 when the file gives none. NuHepMC ranges:
+	// 200-299 quasi-elastic, 400-499 resonance, 600-699 deep inelastic,
+	// charged current X00-X49, neutral current X50-X99.
+	Process int
+	// Weight is the event weight: the NuHepMC "CV" weight, else the
+	// file's first weight. HasWeight is false when the generator gives
+	// none (built-in generators make unweighted events: weight 1).
+	Weight    float64
+	HasWeight bool
+	// LabPos and LabTime are the NuHepMC lab position (cm) and time (ns)
+	// of the event; HasLabPos says the file gave them.
+	LabPos    r3.Vector
+	LabTime   float64
+	HasLabPos bool
 	// Skipped counts the final-state particles not passed on because the
 	// simulator does not track them (neutrinos, hadrons, nuclei, unknown
 	// codes); SkippedNeutrinos is how many of them were neutrinos.
 	Skipped, SkippedNeutrinos int
+}
+
+// EventWeight returns Weight, or 1 when the generator gave none.
+func (i *Info) EventWeight() float64 {
+	if !i.HasWeight {
+		return 1
+	}
+	return i.Weight
 }
 
 // tracked reports whether the event simulator transports particles of this

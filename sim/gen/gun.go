@@ -11,7 +11,7 @@ import (
 // GunParticle is one primary of a particle gun.
 type GunParticle struct {
 	PDG       int      // e-, e+, mu-, mu+ or gamma
-	Energy    Spectrum // kinetic energy, MeV
+	Ekin      Spectrum // kinetic energy, MeV
 	Direction DirDist
 }
 
@@ -42,8 +42,8 @@ func NewGun(cfg GunConfig) (*Gun, error) {
 		if err := checkTracked(p.PDG); err != nil {
 			return nil, fmt.Errorf("gen: GunConfig.Particles[%d].PDG = %d: %w", i, p.PDG, err)
 		}
-		if err := p.Energy.Validate(); err != nil {
-			return nil, fmt.Errorf("gen: GunConfig.Particles[%d].Energy: %w", i, err)
+		if err := p.Ekin.Validate(); err != nil {
+			return nil, fmt.Errorf("gen: GunConfig.Particles[%d].Ekin: %w", i, err)
 		}
 		if err := p.Direction.Validate(); err != nil {
 			return nil, fmt.Errorf("gen: GunConfig.Particles[%d].Direction: %w", i, err)
@@ -83,7 +83,7 @@ func (g *Gun) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]ph
 			PDG:  p.PDG,
 			Pos:  v,
 			Time: g.time,
-			Ekin: p.Energy.Sample(rng),
+			Ekin: p.Ekin.Sample(rng),
 			Dir:  p.Direction.Sample(rng),
 		})
 	}
@@ -100,7 +100,7 @@ func (g *Gun) String() string {
 			b.WriteString(" +")
 		}
 		sp, _ := phys.Lookup(p.PDG)
-		fmt.Fprintf(&b, " %s %v %v", sp.Name, p.Energy, p.Direction)
+		fmt.Fprintf(&b, " %s %v %v", sp.Name, p.Ekin, p.Direction)
 	}
 	fmt.Fprintf(&b, "; vertex %v; t = %g ns", g.vertex, g.time)
 	return b.String()

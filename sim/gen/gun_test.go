@@ -171,8 +171,8 @@ func TestDirections(t *testing.T) {
 func TestGun(t *testing.T) {
 	cfg := GunConfig{
 		Particles: []GunParticle{
-			{PDG: phys.MuonMinus, Energy: UniformEnergy(200, 800), Direction: Along(r3.Vector{Z: 2})},
-			{PDG: phys.Gamma, Energy: FixedEnergy(10), Direction: Isotropic()},
+			{PDG: phys.MuonMinus, Ekin: UniformEnergy(200, 800), Direction: Along(r3.Vector{Z: 2})},
+			{PDG: phys.Gamma, Ekin: FixedEnergy(10), Direction: Isotropic()},
 		},
 		Vertex: InTank(geom.DemoTank()),
 		Time:   5,
@@ -204,14 +204,14 @@ func TestGun(t *testing.T) {
 		{func(c *GunConfig) { c.Particles = nil }, "GunConfig.Particles is empty"},
 		{func(c *GunConfig) { c.Particles[1].PDG = 2212 }, "GunConfig.Particles[1].PDG = 2212"},
 		{func(c *GunConfig) { c.Particles[0].PDG = 12345 }, "GunConfig.Particles[0].PDG = 12345: phys: unknown PDG code"},
-		{func(c *GunConfig) { c.Particles[0].Energy = UniformEnergy(9, 3) }, "GunConfig.Particles[0].Energy: UniformEnergy(9, 3)"},
+		{func(c *GunConfig) { c.Particles[0].Ekin = UniformEnergy(9, 3) }, "GunConfig.Particles[0].Ekin: UniformEnergy(9, 3)"},
 		{func(c *GunConfig) { c.Particles[1].Direction = DirDist{} }, "GunConfig.Particles[1].Direction: not set"},
 		{func(c *GunConfig) { c.Vertex = VertexDist{} }, "GunConfig.Vertex: not set"},
 		{func(c *GunConfig) { c.Time = math.NaN() }, "GunConfig.Time = NaN"},
 	} {
 		cf := GunConfig{Particles: []GunParticle{
-			{PDG: phys.MuonMinus, Energy: FixedEnergy(1), Direction: Isotropic()},
-			{PDG: phys.Gamma, Energy: FixedEnergy(1), Direction: Isotropic()}}, Vertex: AtPoint(r3.Vector{})}
+			{PDG: phys.MuonMinus, Ekin: FixedEnergy(1), Direction: Isotropic()},
+			{PDG: phys.Gamma, Ekin: FixedEnergy(1), Direction: Isotropic()}}, Vertex: AtPoint(r3.Vector{})}
 		c.mod(&cf)
 		_, err := NewGun(cf)
 		if err == nil || !strings.Contains(err.Error(), c.want) {

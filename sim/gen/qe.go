@@ -61,10 +61,10 @@ func OxygenFermiGas() FermiGas {
 // QEConfig configures the charged-current quasi-elastic generator.
 type QEConfig struct {
 	Neutrino int      // PDG code: 12, 14 (nu_e, nu_mu), -12, -14
-	Energy   Spectrum // neutrino energy, MeV
-	// FluxWeighted says that Energy is the neutrino flux, so that the
+	Etot     Spectrum // neutrino total energy, MeV
+	// FluxWeighted says that Etot is the neutrino flux, so that the
 	// energies of the generated interactions follow flux x cross-section.
-	// Otherwise Energy is the distribution of the interacting neutrinos'
+	// Otherwise Etot is the distribution of the interacting neutrinos'
 	// energies, each of which must then be above threshold.
 	FluxWeighted bool
 	Beam         r3.Vector // neutrino direction (normalized; non-zero)
@@ -116,8 +116,8 @@ func NewQE(cfg QEConfig) (*QE, error) {
 	if err != nil {
 		return nil, fmt.Errorf("gen: QEConfig.Neutrino = %d, AxialMass = %g: %w", cfg.Neutrino, cfg.AxialMass, err)
 	}
-	if err := cfg.Energy.Validate(); err != nil {
-		return nil, fmt.Errorf("gen: QEConfig.Energy: %w", err)
+	if err := cfg.Etot.Validate(); err != nil {
+		return nil, fmt.Errorf("gen: QEConfig.Etot: %w", err)
 	}
 	if !finiteVector(cfg.Beam) || cfg.Beam.Norm() == 0 {
 		return nil, fmt.Errorf("gen: QEConfig.Beam = %v must be finite and non-zero", cfg.Beam)
@@ -138,7 +138,7 @@ func NewQE(cfg QEConfig) (*QE, error) {
 	if !isFinite(gas.BindingEnergy) || gas.BindingEnergy < 0 || gas.BindingEnergy > 0.1*ch.model.mi {
 		return nil, fmt.Errorf("gen: QEConfig.Nucleus.BindingEnergy = %g MeV must be in [0, %g]", gas.BindingEnergy, 0.1*ch.model.mi)
 	}
-	q := &QE{ch: ch, neutrino: cfg.Neutrino, energy: cfg.Energy, fluxWeighted: cfg.FluxWeighted,
+	q := &QE{ch: ch, neutrino: cfg.Neutrino, energy: cfg.Etot, fluxWeighted: cfg.FluxWeighted,
 		beam: cfg.Beam.Normalize(), vertex: cfg.Vertex, time: cfg.Time, target: cfg.Target,
 		ma: ma, gas: gas, pauli: true}
 	switch cfg.Target {
@@ -164,7 +164,7 @@ func (q *QE) prepareBound() error {
 	lo, hi := q.energy.Range()
 	if !q.fluxWeighted {
 		if q.bound(lo) == 0 {
-			return fmt.Errorf("gen: QEConfig.Energy: %v reaches %g MeV, below the threshold of %s on %v",
+			return fmt.Errorf("gen: QEConfig.Etot: %v reaches %g MeV, below the threshold of %s on %v",
 				q.energy, lo, q.ch.neutrinoName, q.target)
 		}
 		if lo == hi {
@@ -181,7 +181,7 @@ func (q *QE) prepareBound() error {
 		q.fixedBound = math.Max(q.fixedBound, q.bound(e))
 	}
 	if q.fixedBound == 0 {
-		return fmt.Errorf("gen: QEConfig.Energy: %v lies wholly below the threshold of %s on %v", q.energy, q.ch.neutrinoName, q.target)
+		return fmt.Errorf("gen: QEConfig.Etot: %v lies wholly below the threshold of %s on %v", q.energy, q.ch.neutrinoName, q.target)
 	}
 	return nil
 }
@@ -319,7 +319,7 @@ func (q *QE) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phy
 			continue
 		}
 		info := Info{
-			Reaction: CCQE, Neutrino: q.neutrino, NeutrinoEnergy: e, NeutrinoDir: q.beam,
+			Reaction: CCQE, Neutrino: q.neutrino, NeutrinoEtot: e, NeutrinoDir: q.beam,
 			Target: Oxygen16Code, StruckNucleon: q.ch.initial, FermiMomentum: pF,
 			BindingEnergy: q.gas.BindingEnergy, Q2: q2,
 			FinalNucleon: phys.Particle{PDG: q.ch.final, Pos: vtx, Time: q.time,

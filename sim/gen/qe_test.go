@@ -80,7 +80,7 @@ func TestQEFreeKinematics(t *testing.T) {
 		{phys.ElectronNeu, FreeNucleon, FixedEnergy(40)},
 		{phys.AntiElecNeu, Water, UniformEnergy(20, 2000)},
 	} {
-		q := mustQE(t, QEConfig{Neutrino: c.nu, Energy: c.e, Target: c.target})
+		q := mustQE(t, QEConfig{Neutrino: c.nu, Etot: c.e, Target: c.target})
 		nFree := 0
 		for _, ev := range generateQE(t, q, 1500, 1) {
 			in := ev.info
@@ -94,7 +94,7 @@ func TestQEFreeKinematics(t *testing.T) {
 			if in.FermiMomentum != (r3.Vector{}) || in.BindingEnergy != 0 || in.Target != q.ch.initial {
 				t.Fatalf("free event with info %+v", in)
 			}
-			e := in.NeutrinoEnergy
+			e := in.NeutrinoEtot
 			tot := fourVec{e + q.ch.model.mi, q.beam.Mul(e)}
 			fin := ev.lepP.add(ev.nucP)
 			if d := fin.add(fourVec{-tot.e, tot.p.Mul(-1)}); math.Abs(d.e) > 1e-9*tot.e || d.p.Norm() > 1e-9*tot.e {
@@ -124,7 +124,7 @@ func TestQEQ2Distribution(t *testing.T) {
 		nu int
 		e  float64
 	}{{phys.AntiMuonNeu, 1000}, {phys.MuonNeu, 3000}, {phys.ElectronNeu, 300}} {
-		q := mustQE(t, QEConfig{Neutrino: c.nu, Energy: FixedEnergy(c.e), Target: FreeNucleon})
+		q := mustQE(t, QEConfig{Neutrino: c.nu, Etot: FixedEnergy(c.e), Target: FreeNucleon})
 		lo, hi, _ := q.ch.q2Range(c.e)
 		// Bins in x = 1 - (1 + Q2/M_A^2)^-1 follow the fall-off, equal steps in x.
 		const nb = 25
@@ -152,7 +152,7 @@ func TestQEQ2Distribution(t *testing.T) {
 // energies follow sigma(E) (bin integrals of FreeCrossSection; chi-square).
 func TestQEFluxWeighted(t *testing.T) {
 	lo, hi := 200.0, 3000.0
-	q := mustQE(t, QEConfig{Neutrino: phys.AntiMuonNeu, Energy: UniformEnergy(lo, hi), FluxWeighted: true, Target: FreeNucleon})
+	q := mustQE(t, QEConfig{Neutrino: phys.AntiMuonNeu, Etot: UniformEnergy(lo, hi), FluxWeighted: true, Target: FreeNucleon})
 	const nb = 14
 	w := (hi - lo) / nb
 	probs := make([]float64, nb)
@@ -166,7 +166,7 @@ func TestQEFluxWeighted(t *testing.T) {
 	}
 	counts := make([]int, nb)
 	for _, ev := range generateQE(t, q, 10000, 3) {
-		counts[min(int((ev.info.NeutrinoEnergy-lo)/w), nb-1)]++
+		counts[min(int((ev.info.NeutrinoEtot-lo)/w), nb-1)]++
 	}
 	chiSquare(t, "flux-weighted energies", counts, probs)
 }
@@ -184,7 +184,7 @@ func TestQEOxygen(t *testing.T) {
 		nu int
 		e  float64
 	}{{phys.MuonNeu, 1000}, {phys.AntiElecNeu, 600}} {
-		q := mustQE(t, QEConfig{Neutrino: c.nu, Energy: FixedEnergy(c.e), Target: Oxygen})
+		q := mustQE(t, QEConfig{Neutrino: c.nu, Etot: FixedEnergy(c.e), Target: Oxygen})
 		kF, eb, mi := q.gas.FermiMomentum, q.gas.BindingEnergy, q.ch.model.mi
 		evs := generateQE(t, q, 4000, 4)
 		var sum, sum2 float64
@@ -236,7 +236,7 @@ func TestQEOxygen(t *testing.T) {
 // match the blocked run's (binomial, 5 sigma), and be well below the
 // unblocked fraction (suppression).
 func TestPauliBlocking(t *testing.T) {
-	q := mustQE(t, QEConfig{Neutrino: phys.MuonNeu, Energy: FixedEnergy(800), Target: Oxygen})
+	q := mustQE(t, QEConfig{Neutrino: phys.MuonNeu, Etot: FixedEnergy(800), Target: Oxygen})
 	free := *q
 	free.pauli = false
 	const q2Low = 0.1e6 // MeV^2
@@ -282,7 +282,7 @@ func TestQEBound(t *testing.T) {
 	for _, nu := range []int{phys.ElectronNeu, phys.AntiElecNeu, phys.MuonNeu, phys.AntiMuonNeu} {
 		for _, tg := range []Target{Water, Oxygen, FreeNucleon} {
 			for _, e := range []float64{150, 250, 400, 700, 1200, 3000, 20000} {
-				q := mustQE(t, QEConfig{Neutrino: nu, Energy: FixedEnergy(e), Target: tg})
+				q := mustQE(t, QEConfig{Neutrino: nu, Etot: FixedEnergy(e), Target: tg})
 				b := q.fixedBound
 				for range 3000 {
 					free := q.freeShare == 1 || (q.freeShare > 0 && rng.Float64() < q.freeShare)
@@ -303,16 +303,16 @@ func TestQEBound(t *testing.T) {
 }
 
 func TestQEValidation(t *testing.T) {
-	ok := QEConfig{Neutrino: phys.MuonNeu, Energy: FixedEnergy(1000), Beam: r3.Vector{Z: 1}, Vertex: AtPoint(r3.Vector{})}
+	ok := QEConfig{Neutrino: phys.MuonNeu, Etot: FixedEnergy(1000), Beam: r3.Vector{Z: 1}, Vertex: AtPoint(r3.Vector{})}
 	for _, c := range []struct {
 		mod  func(*QEConfig)
 		want string
 	}{
 		{func(c *QEConfig) { c.Neutrino = phys.Electron }, "QEConfig.Neutrino = 11"},
 		{func(c *QEConfig) { c.AxialMass = -1 }, "AxialMass = -1"},
-		{func(c *QEConfig) { c.Energy = Spectrum{} }, "QEConfig.Energy: not set"},
-		{func(c *QEConfig) { c.Energy = FixedEnergy(100) }, "below the threshold"},
-		{func(c *QEConfig) { c.Energy = UniformEnergy(0, 50); c.FluxWeighted = true }, "wholly below the threshold"},
+		{func(c *QEConfig) { c.Etot = Spectrum{} }, "QEConfig.Etot: not set"},
+		{func(c *QEConfig) { c.Etot = FixedEnergy(100) }, "below the threshold"},
+		{func(c *QEConfig) { c.Etot = UniformEnergy(0, 50); c.FluxWeighted = true }, "wholly below the threshold"},
 		{func(c *QEConfig) { c.Beam = r3.Vector{} }, "QEConfig.Beam"},
 		{func(c *QEConfig) { c.Beam = r3.Vector{X: math.NaN()} }, "QEConfig.Beam"},
 		{func(c *QEConfig) { c.Vertex = VertexDist{} }, "QEConfig.Vertex: not set"},
@@ -336,7 +336,7 @@ func TestQEValidation(t *testing.T) {
 // TestQEDeterministic: the same rng stream gives the same event, from any
 // goroutine; spectrum mode (bound per event) and water for antineutrinos.
 func TestQEDeterministic(t *testing.T) {
-	q := mustQE(t, QEConfig{Neutrino: phys.AntiMuonNeu, Energy: PowerLaw(1.5, 300, 5000), Target: Water,
+	q := mustQE(t, QEConfig{Neutrino: phys.AntiMuonNeu, Etot: PowerLaw(1.5, 300, 5000), Target: Water,
 		Vertex: InFiducial(geom.DemoTank(), 100)})
 	want := make([]qeEvent, 8)
 	for i := range want {

@@ -6,6 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/sim/heavy"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -49,22 +50,22 @@ func SampleMichel(rng *rand.Rand) float64 {
 	}
 }
 
-// michelElectron returns the kinetic energy and direction of the decay
-// electron of a muon moving along dir with kinematics k (k.ekin = 0 for a
-// decay at rest): energy from SampleMichel and an isotropic direction in
+// MichelElectron returns the kinetic energy and direction of the decay
+// electron of a muon moving along dir with kinematics k (k.Ekin() = 0 for
+// a decay at rest): energy from SampleMichel and an isotropic direction in
 // the muon rest frame (muon polarization neglected), boosted to the
 // laboratory along dir.
-func michelElectron(k kinematics, dir r3.Vector, rng *rand.Rand) (ekin float64, eDir r3.Vector) {
+func MichelElectron(k heavy.Kinematics, dir r3.Vector, rng *rand.Rand) (ekin float64, eDir r3.Vector) {
 	const me = phys.ElectronMass
 	eStar := SampleMichel(rng) * MichelEndpoint
 	pStar := math.Sqrt(eStar*eStar - me*me)
 	c := 2*rng.Float64() - 1
 	nStar := phys.Deflect(dir, c, 2*math.Pi*rng.Float64())
-	if k.ekin <= 0 {
+	if k.Ekin() <= 0 {
 		return eStar - me, nStar
 	}
-	gamma := k.e / phys.MuonMass
-	bg := k.p / phys.MuonMass
+	gamma := k.Etot() / phys.MuonMass
+	bg := k.Momentum() / phys.MuonMass
 	// Lorentz boost along dir: E = gamma E* + bg p*_par, p_par = gamma p*_par + bg E*,
 	// the transverse momentum unchanged.
 	pPar := pStar * c

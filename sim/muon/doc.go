@@ -7,48 +7,12 @@
 //
 // # Physics
 //
-// Energy loss. The mean collision loss is the Bethe formula with the
-// Sternheimer density-effect correction and W_max including the m_e/M
-// terms (PDG Review, "Passage of particles through matter"), with the
-// spin-1/2 term W^2/(8E^2) and the radiative correction to ionization
-// (bremsstrahlung off the struck electrons, Kelner-Kokoulin-Petrukhin form
-// as given in the PDG Review). Transfers above Config.DeltaCut are explicit
-// delta rays; below it the PDG restricted loss is applied continuously.
-// Radiative losses (bremsstrahlung, pair production, photonuclear) are a
-// continuous b(E) E term with b(E) for water from the Groom-Mokhov-Striganov
-// tables (Atomic Data and Nuclear Data Tables 78 (2001) 183; values from
-// memory, see radiativeB); they are below 1% of the loss up to 10 GeV.
-// Their stochastic nature (catastrophic losses above ~100 GeV) is not
-// modelled.
-//
-// Delta rays are sampled exactly from the spin-1/2 cross-section
-// d sigma/dT ~ 1/(beta^2 T^2) [1 - beta^2 T/W_max + T^2/(2E^2)], emitted as
-// electrons at the two-body angle cos theta = (T/p_e)(p_max/T_max), and the
-// muon's momentum is reduced by the electron's. The distance to the next
-// delta ray uses the cross-section's maximum over the step and a rejection
-// at the step end (thinning), which is exact for the energy-dependent rate.
-//
-// Straggling of the restricted loss: a Gamma distribution with the
-// restricted mean and the restricted Bohr variance (Bohr 1915; PDG Review,
-// fluctuations in energy loss). Because large transfers are explicit, only
-// the first two moments of the small ones matter for range and light; the
-// Gamma keeps the per-step loss positive and skewed for short steps.
-//
-// Multiple Coulomb scattering uses sim/scatter (Highland width, correlated
-// lateral displacement). The variance given to a step is the growth of the
-// Highland variance of the path travelled so far, so the width after any
-// path is the Highland width of that path, independent of the step size.
-//
-// Stepping: each step is limited by a maximum mean fractional energy loss,
-// a maximum length, the low-energy cut, the next delta-ray candidate, the
-// decay point in flight and the volume boundary (found along the line by
-// bisection with phys.Volume.Contains; a muon that leaves is stopped with
-// fate Exited). Mean energy after a step comes from the range table (exact
-// for the mean, whatever the step). Below Cherenkov threshold (beta below
-// 1/Config.ThresholdIndex) the muon keeps ranging out but reports no
-// segments. The continuous loss of each step is reported through
-// Sink.Deposit at the step's midpoint. Below Config.LowCut the muon stops
-// and the rest is deposited where it stops.
+// Energy loss, delta rays, straggling, multiple scattering and stepping
+// are those of any heavy charged particle and live in sim/heavy (the muon
+// is heavy.Muon(): Bethe with the density effect and spin-1/2 term, the
+// radiative correction to ionization, and the muon radiative losses
+// b(E) E from the Groom-Mokhov-Striganov tables). This package adds what
+// is the muon's own: the decay electron and the capture at rest.
 //
 // Decay and capture. The free decay time is drawn from the PDG mean life
 // (phys.MuonLifetime) in the muon's proper time along its path; if it comes

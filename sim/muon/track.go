@@ -1,16 +1,44 @@
 package muon
 
 import (
-	"errors"
-	"fmt"
-	"math"
 	"math/rand/v2"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/sim/heavy"
+	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
-	"github.com/conelight/conelight/sim/scatter"
 )
+
+// Config holds the transport settings (the heavy-particle transport's).
+type Config = heavy.Config
+
+// DefaultConfig returns the default settings.
+func DefaultConfig() Config { return heavy.DefaultConfig() }
+
+// Energy range of the tables and of the public functions, MeV.
+const (
+	MinTableEnergy = heavy.MinTableEnergy
+	MaxEnergy      = heavy.MaxEnergy
+)
+
+// Physics holds the muon energy-loss tables of one medium (the stopping
+// power, range and delta-ray methods of heavy.Physics) and adds the muon's
+// decay and capture. It is immutable after New and safe for concurrent
+// use.
+type Physics struct {
+	*heavy.Physics
+}
+
+// New builds the tables for medium m with settings cfg (zero fields take
+// their defaults).
+func New(m material.Medium, cfg Config) (*Physics, error) {
+	h, err := heavy.New(m, heavy.Muon(), cfg)
+	if err != nil {
+		return nil, err
+	}
+	return &Physics{h}, nil
+}
 
 // Truth summarizes one transported muon.
 type Truth struct {
@@ -41,199 +69,45 @@ type Truth struct {
 }
 
 // Track transports one mu- (PDG 13) or mu+ (PDG -13) through the medium
-// inside vol, reporting segments above Cherenkov threshold, delta rays,
-// energy deposits and the decay electron to sink, and returns the track's
-// truth. The muon starts at part.Pos (inside vol) with unit direction
-// part.Dir, time part.Time and kinetic energy part.Ekin in [0, MaxEnergy];
-// part.Track labels its segments and is the Parent of its secondaries.
-//
-// Each step is the shortest of: the length with a mean fractional loss of
-// MaxFracLoss (MaxFracLossBelowThreshold below threshold), MaxStep, the
-// distance to the low cut, the distance to the next delta-ray candidate,
-// the distance to the decay point in flight, and the distance to the
-// volume boundary along the line. Along the step the restricted mean loss
-// (from the range table) is applied with Gamma-distributed straggling,
-// then multiple scattering changes direction and displaces the end point;
-// a delta-ray candidate at the step end is kept with probability
-// sigma(E_end)/sigma_max (exact thinning of the Poisson process).
+// inside vol with heavy.Physics.Track, reporting segments above Cherenkov
+// threshold, delta rays, energy deposits and the decay electron to sink,
+// and returns the track's truth. The muon starts at part.Pos (inside vol)
+// with unit direction part.Dir, time part.Time and kinetic energy
+// part.Ekin in [0, MaxEnergy]; part.Track labels its segments and is the
+// Parent of its secondaries. A muon that decays in flight gives a boosted
+// Michel electron; a stopped mu+ decays after the rest of its proper
+// decay time; a stopped mu- is bound to oxygen and decays or is captured
+// (see the package comment).
 func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sink phys.Sink) (Truth, error) {
-	if err := validateStart(part, vol, rng, sink); err != nil {
+	h, err := p.Physics.Track(part, vol, rng, sink)
+	if err != nil {
 		return Truth{}, err
 	}
-	charge, ePDG := -1, phys.Electron
+	tr := Truth{
+		Fate: h.Fate, TrackLength: h.TrackLength, Range: h.Range,
+		EndPos: h.EndPos, EndDir: h.EndDir, EndTime: h.EndTime, EndEkin: h.EndEkin,
+		Steps: h.Steps, Segments: h.Segments, DeltaRays: h.DeltaRays,
+		DeltaEnergy: h.DeltaEnergy, Deposited: h.Deposited,
+	}
+	ePDG := phys.Electron
 	if part.PDG == phys.MuonPlus {
-		charge, ePDG = 1, phys.Positron
+		ePDG = phys.Positron
 	}
-	cfg := &p.cfg
-	lnR := p.lnRangeCut
-	tcut := cfg.DeltaCut
-	if cfg.NoDeltaRays {
-		lnR, tcut = p.lnRangeAll, math.Inf(1)
-	}
-	rCutoff := p.rangeOf(lnR, cfg.LowCut)
-	const c = phys.SpeedOfLight
-
-	pos, dir, t, ek := part.Pos, part.Dir, part.Time, part.Ekin
-	var tr Truth
-	// Proper time at which the muon would decay if free; compared with the
-	// proper time elapsed along the track.
-	tauDecay := rng.ExpFloat64() * phys.MuonLifetime
-	var tauAcc, path float64
-	stopped := true
-	for ek >= cfg.LowCut {
-		k0 := muonKinematics(ek)
-		beta0 := math.Sqrt(k0.beta2)
-		above := beta0 > p.thrBeta
-		frac, span := cfg.MaxFracLoss, p.lnSpan[0]
-		if !above {
-			frac, span = cfg.MaxFracLossBelowThreshold, p.lnSpan[1]
-		}
-		r0 := p.rangeOf(lnR, ek)
-
-		// Step limits.
-		reachCut := false
-		var s float64
-		if tlo := ek * (1 - frac); tlo <= cfg.LowCut {
-			s, reachCut = (r0-rCutoff)/p.rho, true
-		} else {
-			s = (r0 - p.rangeOf(lnR, tlo)) / p.rho
-		}
-		if s > cfg.MaxStep || p.frozen {
-			s, reachCut = cfg.MaxStep, false
-		}
-		delta := false
-		var sigMax float64
-		if !cfg.NoDeltaRays && !p.frozen && k0.tmax > tcut {
-			// Bound over the energies the step can end at, with room for
-			// fluctuations (twice the largest mean loss).
-			sigMax = p.sigmaBound(ek, span)
-			if d := rng.ExpFloat64() / sigMax; d < s {
-				s, delta, reachCut = d, true, false
-			}
-		}
-		decay := false
-		if dtau := s * phys.MuonMass / (c * k0.p); tauAcc+dtau >= tauDecay {
-			s *= (tauDecay - tauAcc) / dtau
-			decay, delta, reachCut = true, false, false
-		}
-		exit := false
-		if !vol.Contains(pos.Add(dir.Mul(s))) {
-			s = crossing(vol, pos, dir, s)
-			exit, decay, delta, reachCut = true, false, false, false
-		}
-
-		// Continuous loss.
-		var loss float64
-		if !p.frozen {
-			r1 := math.Max(r0-s*p.rho, rCutoff)
-			if reachCut {
-				r1 = rCutoff
-			}
-			loss = ek - p.energyOf(lnR, r1)
-			if !cfg.NoStraggling {
-				loss = sampleLoss(loss, p.bohrVariance(muonKinematics(ek-loss/2), tcut, s), rng)
-			}
-			loss = math.Min(math.Max(loss, 0), ek)
-		}
-		ek1 := ek - loss
-
-		// Multiple scattering: the Highland variance accumulated over the
-		// whole path so far, theta0^2(L+s) - theta0^2(L), at this step's
-		// mean p and beta. Summing Highland widths of the individual steps
-		// would lose the log term's growth with path length and make the
-		// result depend on the step size; this way the width after any
-		// path is the Highland width of that path (PDG Review, "Passage of
-		// particles through matter").
-		newDir, end := dir, pos.Add(dir.Mul(s))
-		if !cfg.NoScattering {
-			km := muonKinematics(ek - loss/2)
-			bm := math.Sqrt(km.beta2)
-			thA := scatter.Theta0(path, p.x0, km.p, bm, charge)
-			thB := scatter.Theta0(path+s, p.x0, km.p, bm, charge)
-			var disp r3.Vector
-			newDir, disp = scatter.Sample(dir, s, math.Sqrt(math.Max(0, thB*thB-thA*thA)), rng)
-			if !exit {
-				end = end.Add(disp)
-			}
-		}
-		if !exit && !vol.Contains(end) {
-			// Pushed out by the lateral displacement: cut the step where
-			// the chord leaves the volume.
-			chord := end.Sub(pos)
-			cl := chord.Norm()
-			f := crossing(vol, pos, chord.Mul(1/cl), cl) / cl
-			end = pos.Add(chord.Mul(f))
-			s *= f
-			loss *= f
-			ek1 = ek - loss
-			exit, decay, delta, reachCut = true, false, false, false
-		}
-
-		// Time: beta linear in path length along the step.
-		k1 := muonKinematics(ek1)
-		beta1 := math.Max(math.Sqrt(k1.beta2), 0.5*phys.Beta(cfg.LowCut, phys.MuonMass))
-		t1 := t + s/c*invMeanBeta(beta0, beta1)
-		tauAcc += s * phys.MuonMass / c * 0.5 * (1/k0.p + 1/math.Max(k1.p, 1e-3))
-		if decay {
-			tauAcc = tauDecay
-		}
-		if above {
-			sink.Segment(phys.Segment{
-				Start: pos, End: end, T0: t, T1: t1, Beta0: beta0, Beta1: beta1,
-				Charge: charge, PDG: part.PDG, Track: part.Track,
-			})
-			tr.Segments++
-		}
-		if loss > 0 {
-			sink.Deposit(pos.Add(end).Mul(0.5), (t+t1)/2, loss, part.Track)
-			tr.Deposited += loss
-		}
-		tr.Steps++
-		path += s
-		pos, dir, t, ek = end, newDir, t1, ek1
-
-		if exit || decay {
-			stopped = false
-			tr.Fate = phys.Exited
-			if decay {
-				tr.Fate = phys.DecayedInFlight
-				tr.DecayTime = t
-				tr.Decay = p.emitDecay(muonKinematics(ek), pos, dir, t, ePDG, part.Track, rng, sink)
-			}
-			break
-		}
-		if delta && ek >= cfg.LowCut {
-			k1 = muonKinematics(ek)
-			if rng.Float64()*sigMax < p.deltaSigmaOf(k1, tcut) {
-				te, eDir, muDir := emitDelta(k1, dir, tcut, rng)
-				sink.Secondary(phys.Particle{PDG: phys.Electron, Pos: pos, Dir: eDir, Time: t, Ekin: te, Parent: part.Track})
-				tr.DeltaRays++
-				tr.DeltaEnergy += te
-				ek -= te
-				dir = muDir
-			}
-		}
-		if reachCut {
-			break
-		}
-	}
-	tr.TrackLength = path
-	tr.Range = pos.Sub(part.Pos).Norm()
-	tr.EndPos, tr.EndDir, tr.EndTime = pos, dir, t
-	if !stopped {
-		tr.EndEkin = ek
+	pos, dir, t := h.EndPos, h.EndDir, h.EndTime
+	switch h.Fate {
+	case phys.Exited:
+		return tr, nil
+	case phys.DecayedInFlight:
+		tr.DecayTime = t
+		tr.Decay = p.emitDecay(p.Kinematics(h.EndEkin), pos, dir, t, ePDG, part.Track, rng, sink)
 		return tr, nil
 	}
-	if ek > 0 {
-		sink.Deposit(pos, t, ek, part.Track)
-		tr.Deposited += ek
-	}
-	rest := muonKinematics(0)
+	rest := p.Kinematics(0)
 	if part.PDG == phys.MuonPlus {
 		// The proper time left before the free decay: exponential with the
 		// free lifetime, whatever was spent in flight (no memory).
 		tr.Fate = phys.StoppedDecayed
-		tr.DecayTime = t + (tauDecay - tauAcc)
+		tr.DecayTime = t + (h.DecayProperTime - h.ProperTime)
 		tr.Decay = p.emitDecay(rest, pos, dir, tr.DecayTime, ePDG, part.Track, rng, sink)
 		return tr, nil
 	}
@@ -251,75 +125,9 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 
 // emitDecay samples the decay electron of a muon with kinematics k and
 // reports it to sink.
-func (p *Physics) emitDecay(k kinematics, pos, dir r3.Vector, t float64, pdg, parent int, rng *rand.Rand, sink phys.Sink) phys.Particle {
-	ekin, eDir := michelElectron(k, dir, rng)
+func (p *Physics) emitDecay(k heavy.Kinematics, pos, dir r3.Vector, t float64, pdg, parent int, rng *rand.Rand, sink phys.Sink) phys.Particle {
+	ekin, eDir := MichelElectron(k, dir, rng)
 	e := phys.Particle{PDG: pdg, Pos: pos, Dir: eDir, Time: t, Ekin: ekin, Parent: parent}
 	sink.Secondary(e)
 	return e
-}
-
-// invMeanBeta returns the mean of 1/beta along a step over which beta
-// changes linearly from b0 to b1: ln(b0/b1)/(b0-b1).
-func invMeanBeta(b0, b1 float64) float64 {
-	// With u = (b0-b1)/(b0+b1), ln(b0/b1) = 2 atanh(u): for the small u of
-	// a step the series to u^6 is exact to u^8/9 < 5e-12 and saves a log.
-	sum := b0 + b1
-	u := (b0 - b1) / sum
-	if u2 := u * u; u2 < 0.05*0.05 {
-		return 2 / sum * (1 + u2*(1./3+u2*(1./5+u2/7)))
-	}
-	return math.Log(b0/b1) / (b0 - b1)
-}
-
-// crossing returns the distance along the unit vector u from pos (inside
-// vol) at which the straight line leaves vol, knowing the point at
-// distance s is outside: bisection to s*2^-40, returning the outer side.
-func crossing(vol phys.Volume, pos, u r3.Vector, s float64) float64 {
-	lo, hi := 0.0, s
-	for i := 0; i < 40; i++ {
-		mid := 0.5 * (lo + hi)
-		if vol.Contains(pos.Add(u.Mul(mid))) {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	return hi
-}
-
-func finiteVec(v r3.Vector) bool {
-	for _, x := range [3]float64{v.X, v.Y, v.Z} {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return false
-		}
-	}
-	return true
-}
-
-// validateStart checks the arguments of Track.
-func validateStart(part phys.Particle, vol phys.Volume, rng *rand.Rand, sink phys.Sink) error {
-	switch {
-	case vol == nil:
-		return errors.New("muon: Track: vol is nil")
-	case rng == nil:
-		return errors.New("muon: Track: rng is nil")
-	case sink == nil:
-		return errors.New("muon: Track: sink is nil")
-	}
-	if part.PDG != phys.MuonMinus && part.PDG != phys.MuonPlus {
-		return fmt.Errorf("muon: Particle.PDG = %d is not a muon (want %d or %d)", part.PDG, phys.MuonMinus, phys.MuonPlus)
-	}
-	if err := checkRange("Particle.Ekin", part.Ekin, 0, MaxEnergy, false); err != nil {
-		return err
-	}
-	if math.IsNaN(part.Time) || math.IsInf(part.Time, 0) {
-		return fmt.Errorf("muon: Particle.Time = %g must be finite", part.Time)
-	}
-	if !finiteVec(part.Dir) || math.Abs(part.Dir.Norm()-1) > 1e-6 {
-		return fmt.Errorf("muon: Particle.Dir = %v must be a unit vector", part.Dir)
-	}
-	if !finiteVec(part.Pos) || !vol.Contains(part.Pos) {
-		return fmt.Errorf("muon: Particle.Pos = %v is not inside the volume", part.Pos)
-	}
-	return nil
 }

@@ -1,13 +1,14 @@
 package optics
 
 import (
-	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
 
 	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 func TestSpecularReflect(t *testing.T) {

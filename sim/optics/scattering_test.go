@@ -1,12 +1,13 @@
 package optics
 
 import (
-	"github.com/conelight/conelight/fit/resolution"
 	"math"
 	"math/rand/v2"
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
+
+	"github.com/conelight/conelight/fit/resolution"
 )
 
 const ksAlpha = 1e-4

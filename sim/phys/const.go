@@ -27,3 +27,15 @@ const (
 
 // MuonLifetime is the free muon mean life in ns (PDG Review 2024).
 const MuonLifetime = 2196.9811
+
+// Charged and neutral pion masses (MeV) and the charged pion mean life
+// (ns), PDG Review 2024 particle listings (pi+-: 139.57039 MeV,
+// tau = 2.6033e-8 s; pi0: 134.9768 MeV).
+const (
+	PionMass        = 139.57039
+	PionZeroMass    = 134.9768
+	PionLifetime    = 26.033
+	NeutralPionCode = 111
+	PionPlusCode    = 211
+	PionMinusCode   = -211
+)

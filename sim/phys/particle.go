@@ -57,6 +57,12 @@ func Lookup(pdg int) (Species, error) {
 		return Species{pdg, "p", ProtonMass, +1}, nil
 	case NeutronCode:
 		return Species{pdg, "n", NeutronMass, 0}, nil
+	case PionPlusCode:
+		return Species{pdg, "pi+", PionMass, +1}, nil
+	case PionMinusCode:
+		return Species{pdg, "pi-", PionMass, -1}, nil
+	case NeutralPionCode:
+		return Species{pdg, "pi0", PionZeroMass, 0}, nil
 	}
 	return Species{}, fmt.Errorf("phys: unknown PDG code %d", pdg)
 }
@@ -64,12 +70,12 @@ func Lookup(pdg int) (Species, error) {
 // KnownPDG returns the PDG codes Lookup knows, in the order of the
 // constants above.
 func KnownPDG() []int {
-	return []int{Electron, Positron, ElectronNeu, AntiElecNeu, MuonMinus, MuonPlus, MuonNeu, AntiMuonNeu, Gamma, ProtonCode, NeutronCode}
+	return []int{Electron, Positron, ElectronNeu, AntiElecNeu, MuonMinus, MuonPlus, MuonNeu, AntiMuonNeu, Gamma, ProtonCode, NeutronCode, PionPlusCode, PionMinusCode, NeutralPionCode}
 }
 
 // ParsePDG returns the PDG code of a particle name of the table ("e-",
 // "e+", "mu-", "mu+", "gamma", "nu_e", "anti-nu_e", "nu_mu", "anti-nu_mu",
-// "p", "n"): the inverse of PDGName. An unknown name is an error listing
+// "p", "n", "pi+", "pi-", "pi0"): the inverse of PDGName. An unknown name is an error listing
 // the known ones.
 func ParsePDG(name string) (int, error) {
 	var names []string

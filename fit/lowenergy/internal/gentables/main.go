@@ -31,6 +31,7 @@ import (
 	"log"
 	"math"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -137,7 +138,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		dirEdges[i] = -1 + 2*float64(i)/float64(dirBins)
 	}
 	t.Direction = uniformDensity(dirEdges)
-	provisional, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	provisional, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -167,7 +168,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 	t.Meta["direction"] = fmt.Sprintf("%d prompt hits in [%.2f, %.2f] ns", nDir, lo, hi)
 
 	// 3. Energy calibration with full fits.
-	fitter, err := lowenergy.New(lowenergy.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Tables: t})
+	fitter, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup, Tables: t})
 	if err != nil {
 		return nil, err
 	}
@@ -192,10 +193,10 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			if err != nil {
 				return nil, err
 			}
-			if r.Converged {
+			if r.Status == fit.Converged {
 				neff = append(neff, r.Neff)
 				p := ev.Truth.Primaries[0]
-				shift = append(shift, r.Vertex.Sub(p.Pos).Dot(r.Dir))
+				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(r.Track.Dir))
 			}
 		}
 		g, err := resolution.GaussianCore(neff, 2)

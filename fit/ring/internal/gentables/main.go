@@ -28,17 +28,17 @@ import (
 	"encoding/gob"
 	"flag"
 	"fmt"
+	"io"
 	"log"
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"runtime"
 	"sync"
 
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/fit/ring/internal/profile"
+	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/sim/cherenkov"
 	"github.com/conelight/conelight/sim/em"
 	"github.com/conelight/conelight/sim/material"
@@ -332,32 +332,15 @@ func node(physics *transport.Physics, emitter *cherenkov.Emitter, pdg int, e flo
 	return nd, nil
 }
 
-func writeAtomic(path string, f *profile.File) (err error) {
-	tmp, err := os.CreateTemp(filepath.Dir(path), ".profiles-*")
-	if err != nil {
-		return err
-	}
-	defer func() {
+func writeAtomic(path string, f *profile.File) error {
+	return safefile.Write(path, func(w io.Writer) error {
+		zw, err := gzip.NewWriterLevel(w, gzip.BestCompression)
 		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
+			return err
 		}
-	}()
-	zw, err := gzip.NewWriterLevel(tmp, gzip.BestCompression)
-	if err != nil {
-		return err
-	}
-	if err = gob.NewEncoder(zw).Encode(f); err != nil {
-		return err
-	}
-	if err = zw.Close(); err != nil {
-		return err
-	}
-	if err = tmp.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+		if err := gob.NewEncoder(zw).Encode(f); err != nil {
+			return err
+		}
+		return zw.Close()
+	})
 }
