@@ -220,7 +220,13 @@ func (d *Detector) SensorAt(q r3.Vector, s Surface) int {
 		g := &d.barrel
 		lo, hi := g.cellRange(phi, q.Z)
 		for _, e := range g.entries[lo:hi] {
-			arc, dz := d.cyl.r*wrapAngle(phi-e.u), q.Z-e.v
+			// dz alone rules most candidates out; arc^2 >= 0 and rounding
+			// is monotone, so the full test could not pass either.
+			dz := q.Z - e.v
+			if dz*dz > d.rc2 {
+				continue
+			}
+			arc := d.cyl.r * wrapAngle(phi-e.u)
 			if arc*arc+dz*dz <= d.rc2 {
 				return int(e.index)
 			}

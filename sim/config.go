@@ -28,9 +28,10 @@ type Config struct {
 	Muon muon.Config
 	// NoDarkNoise switches dark pulses off.
 	NoDarkNoise bool
-	// TraceAllPhotons switches photon pre-scaling off: every Cherenkov
-	// photon is traced and detection is decided at the sensor alone. The
-	// results have the same distribution, at several times the cost.
+	// TraceAllPhotons switches photon pre-scaling and thinning off: every
+	// Cherenkov photon is traced and detection is decided at the sensor
+	// alone. The results have the same distribution, at several times the
+	// cost.
 	TraceAllPhotons bool
 	// ExtendedWindow (ns) keeps every hit from the end of the primary
 	// trigger's readout window to ExtendedWindow after the primary

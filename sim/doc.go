@@ -18,8 +18,9 @@
 //     truth's primaries with fate NotFollowed and are counted in
 //     Progress.NotFollowed;
 //  3. every charged step above threshold emits its Cherenkov photons
-//     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
-//     each photon is traced at once to the wall (sim/photon), so no event
+//     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency and
+//     thinned by their efficiency at the photon's wavelength, and each
+//     photon is traced at once to the wall (sim/photon), so no event
 //     ever holds its photons in memory;
 //  4. the signal photoelectrons are split into clusters in time (a gap
 //     longer than a whole readout starts a new one); each cluster gets dark

@@ -51,7 +51,20 @@ func New(cfg Config) (*Simulator, error) {
 	if !(prescale > 0) {
 		return nil, fmt.Errorf("sim: the sensor's maximum efficiency is %g: no photon can be detected", prescale)
 	}
-	emitter, err := cherenkov.NewEmitter(cfg.Water, lo, hi, prescale)
+	// Photons are thinned at emission by the sensors' efficiency at their
+	// wavelength (over the prescale), so that few are followed only to be
+	// refused by the photocathode; the cathode applies the angular part.
+	thinned := !cfg.TraceAllPhotons
+	var emitter *cherenkov.Emitter
+	var err error
+	if thinned {
+		sensor := cfg.Sensor
+		emitter, err = cherenkov.NewThinningEmitter(cfg.Water, lo, hi, prescale, func(l float64) float64 {
+			return min(sensor.SpectralEfficiency(l)/prescale, 1)
+		})
+	} else {
+		emitter, err = cherenkov.NewEmitter(cfg.Water, lo, hi, prescale)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
 	}
@@ -83,7 +96,7 @@ func New(cfg Config) (*Simulator, error) {
 			return nil, fmt.Errorf("sim: %w", err)
 		}
 	}
-	tracer, err := photon.NewTracer(cfg.Detector, &cfg.Sensor, cfg.Water, photon.Config{Liner: cfg.Liner, Prescale: prescale})
+	tracer, err := photon.NewTracer(cfg.Detector, &cfg.Sensor, cfg.Water, photon.Config{Liner: cfg.Liner, Prescale: prescale, Thinned: thinned})
 	if err != nil {
 		return nil, fmt.Errorf("sim: %w", err)
 	}
@@ -152,18 +165,14 @@ func (w *worker) Segment(seg phys.Segment) {
 		return
 	}
 	var err error
-	w.photons, err = w.s.emitter.Emit(seg, w.rng, w.photons[:0])
+	var mean float64
+	w.photons, mean, err = w.s.emitter.EmitMean(seg, w.rng, w.photons[:0])
 	if err != nil {
 		w.err = err
 		return
 	}
 	if p := w.tracker.PrimaryOf(seg.Track); p >= 0 {
 		// The expected physical count, not the pre-scaled draw.
-		mean, err := w.s.emitter.MeanPhotons(seg)
-		if err != nil {
-			w.err = err
-			return
-		}
 		w.visible[p] += mean / w.s.prescale
 	}
 	w.traced += len(w.photons)

@@ -8,7 +8,10 @@
 // An Emitter can pre-scale the light by the sensors' largest detection
 // efficiency, so that photons no sensor could ever detect are never made;
 // the photon transport then applies the remaining efficiency ratio as a
-// survival probability.
+// survival probability. A thinning emitter (NewThinningEmitter) also keeps
+// each photon with a probability set by its wavelength (the sensors'
+// efficiency there over the prescale), which leaves a Poisson process with
+// the spectrum multiplied by that probability.
 //
 // Units: lengths cm, times ns, energies MeV, wavelengths nm (vacuum).
 package cherenkov

@@ -41,6 +41,7 @@ type Emitter struct {
 	index    []float64 // phase index at lo + i h, non-increasing
 	s1       []float64 // int_lo^lambda_i dlambda / (n^2 lambda^2), nm^-1
 	prescale float64
+	keep     func(lambda float64) float64 // thinning by wavelength; nil keeps all
 	// Yield table: betaLo + k dBeta, k < betaNodes; yield in photons/cm for
 	// unit charge (not prescaled), cum its integral over beta from betaLo.
 	betaLo, dBeta, invDBeta float64
@@ -74,6 +75,35 @@ func NewEmitter(water *optics.Water, lo, hi, prescale float64) (*Emitter, error)
 		index[i] = water.Index(l)
 	}
 	return newEmitter(lo, hi, index, prescale)
+}
+
+// NewThinningEmitter is NewEmitter whose photons are also thinned by
+// wavelength: a photon of wavelength lambda drawn at the prescaled rate is
+// kept with probability keep(lambda), which must lie in [0, 1] over the
+// band. Thinning a Poisson process by a probability that depends only on
+// the photon's own wavelength leaves a Poisson process whose spectrum is
+// the prescaled one times keep: a simulator passes the sensors'
+// wavelength-dependent efficiency over the prescale, so that only photons
+// that could make a photoelectron are followed. MeanPhotons and EmitMean's
+// mean stay the prescaled means before thinning. keep is checked on the
+// emitter's wavelength grid; it is called once per photon and must be safe
+// for concurrent use.
+func NewThinningEmitter(water *optics.Water, lo, hi, prescale float64, keep func(lambda float64) float64) (*Emitter, error) {
+	if keep == nil {
+		return nil, fmt.Errorf("cherenkov: NewThinningEmitter keep is nil")
+	}
+	e, err := NewEmitter(water, lo, hi, prescale)
+	if err != nil {
+		return nil, err
+	}
+	for i := range e.index {
+		l := min(lo+float64(i)*e.h, hi)
+		if k := keep(l); !(k >= 0 && k <= 1) {
+			return nil, fmt.Errorf("cherenkov: NewThinningEmitter keep(%g nm) = %g must lie in [0, 1]", l, k)
+		}
+	}
+	e.keep = keep
+	return e, nil
 }
 
 // newEmitter builds the tables from the index at intervals+1 equally
@@ -253,22 +283,33 @@ func (e *Emitter) mean(seg phys.Segment, length float64) float64 {
 // about the step, uniform in azimuth; the time is interpolated linearly in
 // s from T0 to T1 (the speed changes little within a step). A bad segment
 // (NaN or infinite coordinates or times, T1 < T0, a speed outside [0, 1])
-// returns dst unchanged and an error naming the field. Emit allocates
-// nothing beyond growing dst.
+// returns dst unchanged and an error naming the field. An emitter from
+// NewThinningEmitter then keeps each photon with probability
+// keep(lambda), drawing its direction only for the kept ones. Emit
+// allocates nothing beyond growing dst.
 func (e *Emitter) Emit(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon, error) {
+	dst, _, err := e.EmitMean(seg, rng, dst)
+	return dst, err
+}
+
+// EmitMean is Emit that also returns MeanPhotons(seg), which it computes
+// anyway, so that a caller wanting both pays for it once.
+func (e *Emitter) EmitMean(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon, float64, error) {
 	if err := checkSegment(seg); err != nil {
-		return dst, err
+		return dst, 0, err
 	}
 	axis := seg.End.Sub(seg.Start)
 	length := axis.Norm()
+	mean := e.mean(seg, length)
 	if length == 0 || seg.Charge == 0 {
-		return dst, nil
+		return dst, mean, nil
 	}
-	count := poisson(rng, e.mean(seg, length))
+	count := poisson(rng, mean)
 	if count == 0 {
-		return dst, nil
+		return dst, mean, nil
 	}
 	axis = axis.Mul(1 / length)
+	frame := phys.NewFrame(axis)
 	b0, db := seg.Beta0, seg.Beta1-seg.Beta0
 	t0, dt := seg.T0, seg.T1-seg.T0
 	bmax := math.Max(seg.Beta0, seg.Beta1)
@@ -289,14 +330,17 @@ func (e *Emitter) Emit(seg phys.Segment, rng *rand.Rand, dst []Photon) ([]Photon
 				break
 			}
 		}
+		if e.keep != nil && !(rng.Float64() < e.keep(lambda)) {
+			continue
+		}
 		dst = append(dst, Photon{
 			Pos:        seg.Start.Add(axis.Mul(u * length)),
-			Dir:        phys.Deflect(axis, 1/nb, 2*math.Pi*rng.Float64()),
+			Dir:        frame.Deflect(1/nb, 2*math.Pi*rng.Float64()),
 			Time:       t0 + dt*u,
 			Wavelength: lambda,
 		})
 	}
-	return dst, nil
+	return dst, mean, nil
 }
 
 func checkSegment(seg phys.Segment) error {

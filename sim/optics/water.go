@@ -251,6 +251,39 @@ func (w *Water) lookup(q int, lambda float64) float64 {
 	return t[i] + f*(t[i+1]-t[i])
 }
 
+// Coefficients are the interaction coefficients (1/cm) and group velocity
+// of one wavelength: what a photon's flight needs, looked up once.
+type Coefficients struct {
+	Absorption    float64 // 1/AbsorptionLength
+	Scattering    float64 // 1/ScatteringLength, Rayleigh and Mie together
+	Mie           float64 // 1/MieLength
+	GroupVelocity float64 // cm/ns
+}
+
+// CoefficientsAt returns the coefficients at lambda (nm), each exactly the
+// value the single lookups interpolate (NaN outside the band), for one
+// search of the grid instead of four.
+func (w *Water) CoefficientsAt(lambda float64) Coefficients {
+	f := (lambda - w.lo) * w.invH
+	last := w.nodes - 1
+	if !(f >= 0 && f <= float64(last)) {
+		nan := math.NaN()
+		return Coefficients{nan, nan, nan, nan}
+	}
+	i := int(f)
+	if i == last {
+		i--
+	}
+	f -= float64(i)
+	at := func(t []float64) float64 { return t[i] + f*(t[i+1]-t[i]) }
+	return Coefficients{
+		Absorption:    at(w.tab[qAbsorption]),
+		Scattering:    at(w.tab[qScattering]),
+		Mie:           at(w.tab[qMie]),
+		GroupVelocity: at(w.tab[qGroupVelocity]),
+	}
+}
+
 // Index returns the phase refractive index at lambda (nm).
 func (w *Water) Index(lambda float64) float64 { return w.lookup(qIndex, lambda) }
 
@@ -325,7 +358,14 @@ func (w *Water) SampleMieCos(rng *rand.Rand) float64 {
 // wavelength lambda (nm) that scatters: Rayleigh or Mie in proportion to
 // their coefficients there, then that component's phase function.
 func (w *Water) SampleScatterCos(lambda float64, rng *rand.Rand) float64 {
-	if w.mieEnabled && rng.Float64()*w.lookup(qScattering, lambda) < w.lookup(qMie, lambda) {
+	return w.SampleScatterCosWith(Coefficients{Scattering: w.lookup(qScattering, lambda), Mie: w.lookup(qMie, lambda)}, rng)
+}
+
+// SampleScatterCosWith is SampleScatterCos with the coefficients of the
+// photon's wavelength already looked up (CoefficientsAt); it draws the
+// same numbers.
+func (w *Water) SampleScatterCosWith(c Coefficients, rng *rand.Rand) float64 {
+	if w.mieEnabled && rng.Float64()*c.Scattering < c.Mie {
 		return w.SampleMieCos(rng)
 	}
 	return w.SampleRayleighCos(rng)

@@ -181,3 +181,26 @@ func TestWaterNoAllocation(t *testing.T) {
 	}
 	_ = sink
 }
+
+// TestCoefficientsAt: the combined lookup gives exactly the values of the
+// single lookups across the band, and NaN outside it.
+func TestCoefficientsAt(t *testing.T) {
+	w, err := NewWater(DefaultWaterConfig())
+	if err != nil {
+		t.Fatal(err)
+	}
+	lo, hi := w.Band()
+	for k := 0; k <= 10000; k++ {
+		l := lo + (hi-lo)*float64(k)/10000
+		c := w.CoefficientsAt(l)
+		if c.Absorption != w.lookup(qAbsorption, l) || c.Scattering != w.lookup(qScattering, l) ||
+			c.Mie != w.lookup(qMie, l) || c.GroupVelocity != w.GroupVelocity(l) {
+			t.Fatalf("CoefficientsAt(%v) = %+v differs from the single lookups", l, c)
+		}
+	}
+	for _, l := range []float64{lo - 1e-9, hi + 1e-9, math.NaN()} {
+		if c := w.CoefficientsAt(l); !math.IsNaN(c.Absorption) || !math.IsNaN(c.GroupVelocity) {
+			t.Errorf("CoefficientsAt(%v) = %+v, want NaN outside the band", l, c)
+		}
+	}
+}

@@ -1,7 +1,6 @@
 package photon
 
 import (
-	"math"
 	"math/rand/v2"
 	"testing"
 
@@ -10,6 +9,7 @@ import (
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/cherenkov"
+	"github.com/conelight/conelight/sim/internal/floor"
 	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -67,39 +67,16 @@ func BenchmarkPhotonLife(b *testing.B) {
 	b.ReportMetric(float64(total)/float64(b.N), "photons/op")
 }
 
-// BenchmarkPhotonFloor is the least any photon life can cost: the random
-// draws of an isotropic direction, one exponential free path and a bare
-// ray-cylinder intersection from near the centre of the large tank, with
-// no wall classification, lookup, optics tables or detection.
+// BenchmarkPhotonFloor is the least any photon life can cost
+// (sim/internal/floor): the random draws of an isotropic direction, one
+// exponential free path and a bare ray-cylinder intersection from near the
+// centre of the large tank, with no wall classification, lookup, optics
+// tables or detection.
 func BenchmarkPhotonFloor(b *testing.B) {
 	t := geom.LargeTank()
-	r, h := t.SensorRadius(), t.SensorHalfHeight()
 	rng := rand.New(rand.NewPCG(3, 4))
-	p := r3.Vector{X: 10, Y: -20, Z: 30}
-	var sink float64
 	b.ResetTimer()
-	for i := 0; i < b.N; i++ {
-		c := 2*rng.Float64() - 1
-		s := math.Sqrt(1 - c*c)
-		sp, cp := math.Sincos(2 * math.Pi * rng.Float64())
-		ux, uy, uz := s*cp, s*sp, c
-		free := rng.ExpFloat64() * 5000
-		// Barrel: |p_xy + d u_xy| = r.
-		a := ux*ux + uy*uy
-		bb := p.X*ux + p.Y*uy
-		cc := p.X*p.X + p.Y*p.Y - r*r
-		d := math.Inf(1)
-		if a > 0 {
-			d = (-bb + math.Sqrt(bb*bb-a*cc)) / a
-		}
-		if uz > 0 {
-			d = math.Min(d, (h-p.Z)/uz)
-		} else if uz < 0 {
-			d = math.Min(d, (-h-p.Z)/uz)
-		}
-		sink += math.Min(d, free)
-	}
-	if sink == 0 {
+	if floor.Photons(b.N, rng, r3.Vector{X: 10, Y: -20, Z: 30}, t.SensorRadius(), t.SensorHalfHeight()) == 0 && b.N > 0 {
 		b.Fatal("no distance")
 	}
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N), "ns/photon")

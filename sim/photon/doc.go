@@ -10,8 +10,8 @@
 // functions) and flies on. Time advances at the group velocity c/n_g of its
 // wavelength. On the wall, the O(1) sensor lookup of geom.Detector decides
 // whether the photon met a photocathode; there the detection probability
-// QE x collection x angular acceptance, divided by the pre-scale factor the
-// emitter already applied, is its survival probability. Photons meeting
+// QE x collection x angular acceptance, divided by what the emitter
+// already applied, is its survival probability. Photons meeting
 // the liner between sensors are reflected with the liner's reflectivity or
 // absorbed. Sensor glass reflection is not modelled: photons that meet a
 // photocathode and are not converted are absorbed there.
@@ -22,6 +22,14 @@
 // Efficiency(lambda, cos)/P, so the photoelectron counts have the same
 // distribution as tracing every photon with survival Efficiency. P = 1
 // traces every photon.
+//
+// Thinning (Config.Thinned): the emitter goes further and keeps each
+// photon with probability SpectralEfficiency(lambda)/P at emission
+// (cherenkov.NewThinningEmitter); the photocathode then applies only the
+// angular acceptance. The photoelectrons have the same distribution again
+// (the thinning of a Poisson process by a probability that depends on the
+// photon's own wavelength), and no photon whose wavelength the cathode
+// would mostly refuse is followed through the water.
 //
 // A *Tracer is immutable and safe for concurrent use; each goroutine passes
 // its own random stream.

@@ -51,6 +51,12 @@ type Config struct {
 	// sensor model's MaxEfficiency so that survival probabilities stay
 	// at most 1.
 	Prescale float64
+	// Thinned says that the emitter has already kept each photon with
+	// probability SpectralEfficiency(lambda)/Prescale (a
+	// cherenkov.NewThinningEmitter), so that the photocathode applies
+	// only the angular acceptance. Otherwise it applies
+	// Efficiency(lambda, cos)/Prescale.
+	Thinned bool
 	// MaxInteractions bounds the scatterings plus reflections of one
 	// photon; beyond it the photon is counted Lost. 0 means 1000.
 	MaxInteractions int
@@ -63,6 +69,7 @@ type Tracer struct {
 	water    *optics.Water
 	liner    optics.Liner
 	invScale float64
+	thinned  bool
 	maxInter int
 	facing   []r3.Vector // inward facing of each sensor, flat for the hot loop
 	radius   float64     // sensor-surface radius, for the barrel normal
@@ -106,6 +113,7 @@ func NewTracer(det *geom.Detector, model *pmt.Model, water *optics.Water, cfg Co
 		water:    water,
 		liner:    cfg.Liner,
 		invScale: 1 / cfg.Prescale,
+		thinned:  cfg.Thinned,
 		maxInter: cfg.MaxInteractions,
 		facing:   make([]r3.Vector, det.NumSensors()),
 		radius:   det.Tank().SensorRadius(),
@@ -130,8 +138,9 @@ func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, 
 	}
 	pos, dir, time := ph.Pos, ph.Dir, ph.Time
 	origin := pmt.Direct
+	fl := t.flightConstants(lambda)
 	for inter := 0; inter <= t.maxInter; inter++ {
-		w := t.flight(pos, dir, time, lambda, rng)
+		w := t.flight(pos, dir, time, &fl, rng)
 		switch {
 		case w.lost:
 			return pmt.Photoelectron{}, Lost
@@ -145,7 +154,12 @@ func (t *Tracer) Trace(ph cherenkov.Photon, rng *rand.Rand) (pmt.Photoelectron, 
 		time = w.time
 		if i := t.det.SensorAt(w.pos, w.surf); i >= 0 {
 			cosInc := -w.dir.Dot(t.facing[i])
-			p := t.model.Efficiency(lambda, cosInc) * t.invScale
+			var p float64
+			if t.thinned {
+				p = t.model.AngularAcceptance(cosInc)
+			} else {
+				p = t.model.Efficiency(lambda, cosInc) * t.invScale
+			}
 			if cosInc > 0 && rng.Float64() < p {
 				return pmt.Photoelectron{Sensor: i, Time: time, Origin: origin}, Detected
 			}
@@ -177,11 +191,8 @@ type wallArrival struct {
 // it meets the wall or is absorbed. Free paths are exponential in the
 // total coefficient 1/L_abs + 1/L_scat; at each interaction the photon is
 // absorbed with probability (1/L_abs)/(total), otherwise scattered.
-func (t *Tracer) flight(pos, dir r3.Vector, time, lambda float64, rng *rand.Rand) wallArrival {
-	muAbs := 1 / t.water.AbsorptionLength(lambda)
-	muScat := 1 / t.water.ScatteringLength(lambda)
-	muTot := muAbs + muScat
-	invV := 1 / t.water.GroupVelocity(lambda)
+func (t *Tracer) flight(pos, dir r3.Vector, time float64, fl *flightConstants, rng *rand.Rand) wallArrival {
+	muAbs, muTot, invV := fl.muAbs, fl.muTot, fl.invV
 	var w wallArrival
 	for ; w.scatters <= t.maxInter; w.scatters++ {
 		dWall, surf := t.det.Intersect(pos, dir)
@@ -204,10 +215,22 @@ func (t *Tracer) flight(pos, dir r3.Vector, time, lambda float64, rng *rand.Rand
 			w.absorbed = true
 			return w
 		}
-		dir = phys.Deflect(dir, t.water.SampleScatterCos(lambda, rng), 2*math.Pi*rng.Float64())
+		dir = phys.Deflect(dir, t.water.SampleScatterCosWith(fl.coef, rng), 2*math.Pi*rng.Float64())
 	}
 	w.lost = true
 	return w
+}
+
+// flightConstants are the water's properties at one photon's wavelength,
+// looked up once per photon rather than once per flight.
+type flightConstants struct {
+	coef               optics.Coefficients
+	muAbs, muTot, invV float64
+}
+
+func (t *Tracer) flightConstants(lambda float64) flightConstants {
+	c := t.water.CoefficientsAt(lambda)
+	return flightConstants{coef: c, muAbs: c.Absorption, muTot: c.Absorption + c.Scattering, invV: 1 / c.GroupVelocity}
 }
 
 // inwardNormal returns the unit normal of the sensor surface at q,

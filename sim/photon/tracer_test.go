@@ -78,7 +78,7 @@ func TestFlightAbsorptionOnly(t *testing.T) {
 	const n = 100000
 	reached := 0
 	for i := 0; i < n; i++ {
-		a := tr.flight(r3.Vector{}, horizontal(2*math.Pi*rng.Float64()), 0, lambda, rng)
+		a := tr.flightAt(r3.Vector{}, horizontal(2*math.Pi*rng.Float64()), 0, lambda, rng)
 		if !a.absorbed && !a.lost {
 			reached++
 			if a.surf != geom.Barrel {
@@ -103,7 +103,7 @@ func TestFlightScatteringOnly(t *testing.T) {
 	const n = 100000
 	direct := 0
 	for i := 0; i < n; i++ {
-		a := tr.flight(r3.Vector{}, horizontal(2*math.Pi*rng.Float64()), 0, lambda, rng)
+		a := tr.flightAt(r3.Vector{}, horizontal(2*math.Pi*rng.Float64()), 0, lambda, rng)
 		if a.absorbed || a.lost {
 			t.Fatalf("photon absorbed or lost in water with no absorption: %+v", a)
 		}
@@ -125,7 +125,7 @@ func TestDirectArrivalTime(t *testing.T) {
 		for i := 0; i < 100; i++ {
 			u := r3.Vector{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}.Normalize()
 			start := r3.Vector{X: 100, Y: -50, Z: 200}
-			a := tr.flight(start, u, 3, lambda, rng)
+			a := tr.flightAt(start, u, 3, lambda, rng)
 			path := a.pos.Sub(start).Norm()
 			want := 3 + path*w.GroupIndex(lambda)/phys.SpeedOfLight
 			if math.Abs(a.time-want) > 1e-6*want {
@@ -236,7 +236,7 @@ func TestLinerReflection(t *testing.T) {
 	missed, reflected := 0, 0
 	for i := 0; i < n; i++ {
 		u := horizontal(2 * math.Pi * rng.Float64())
-		a := tr.flight(r3.Vector{}, u, 0, 400, rng)
+		a := tr.flightAt(r3.Vector{}, u, 0, 400, rng)
 		if det.SensorAt(a.pos, a.surf) >= 0 {
 			continue
 		}
@@ -292,4 +292,10 @@ func TestNewTracerErrors(t *testing.T) {
 			t.Errorf("photon %+v: fate %v, want lost", ph, f)
 		}
 	}
+}
+
+// flightAt is flight for a photon of wavelength lambda (nm).
+func (t *Tracer) flightAt(pos, dir r3.Vector, time, lambda float64, rng *rand.Rand) wallArrival {
+	fl := t.flightConstants(lambda)
+	return t.flight(pos, dir, time, &fl, rng)
 }

@@ -25,9 +25,28 @@ func Basis(u r3.Vector) (e1, e2 r3.Vector) {
 // used by Cherenkov emission, light scattering, multiple scattering and
 // two-body kinematics.
 func Deflect(u r3.Vector, cosTheta, phi float64) r3.Vector {
-	sinTheta := math.Sqrt(math.Max(0, 1-cosTheta*cosTheta))
+	return NewFrame(u).Deflect(cosTheta, phi)
+}
+
+// Frame is a unit vector U with the basis E1, E2 of Basis(U): a loop that
+// deflects many times about one axis (the photons of one Cherenkov step)
+// builds it once. Frame.Deflect gives bit for bit what Deflect gives.
+type Frame struct {
+	U, E1, E2 r3.Vector
+}
+
+// NewFrame returns the frame of the unit vector u.
+func NewFrame(u r3.Vector) Frame {
 	e1, e2 := Basis(u)
+	return Frame{U: u, E1: e1, E2: e2}
+}
+
+// Deflect returns the unit vector at polar angle theta (given by its
+// cosine) and azimuth phi about f.U.
+func (f Frame) Deflect(cosTheta, phi float64) r3.Vector {
+	sinTheta := math.Sqrt(math.Max(0, 1-cosTheta*cosTheta))
 	sp, cp := math.Sincos(phi)
+	u, e1, e2 := f.U, f.E1, f.E2
 	return r3.Vector{
 		X: cosTheta*u.X + sinTheta*(cp*e1.X+sp*e2.X),
 		Y: cosTheta*u.Y + sinTheta*(cp*e1.Y+sp*e2.Y),
