@@ -31,11 +31,14 @@ import (
 	"log"
 	"math"
 
+	"github.com/golang/geo/r3"
+
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/phys"
 )
 
 func main() {
@@ -184,7 +187,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		if err != nil {
 			return nil, err
 		}
-		var neff, shift []float64
+		var neff, shift, angle, angleVar, alongVar, across, acrossVar []float64
 		for _, ev := range evs {
 			if !ev.Truth.Triggered {
 				continue
@@ -196,7 +199,35 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			if r.Status == fit.Converged {
 				neff = append(neff, r.Neff)
 				p := ev.Truth.Primaries[0]
-				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(r.Track.Dir))
+				d := r.Track.Dir
+				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(d))
+				// The calibration's own tables have no spreads yet, so
+				// the fit's errors are the statistical ones.
+				c := [3]float64{d.X, d.Y, d.Z}
+				v := 0.0
+				for i := range 3 {
+					for j := range 3 {
+						v += c[i] * r.Cov[i][j] * c[j]
+					}
+				}
+				alongVar = append(alongVar, v)
+				e1, e2 := phys.Basis(d)
+				light := r.Track.Vertex.Add(d.Mul(r.Shift)).Sub(p.Pos)
+				for _, u := range []r3.Vector{e1, e2} {
+					c := [3]float64{u.X, u.Y, u.Z}
+					v := 0.0
+					for i := range 3 {
+						for j := range 3 {
+							v += c[i] * r.Cov[i][j] * c[j]
+						}
+					}
+					across = append(across, light.Dot(u))
+					acrossVar = append(acrossVar, v)
+				}
+				if r.ErrorsValid {
+					angle = append(angle, p.Dir.Dot(e1), p.Dir.Dot(e2))
+					angleVar = append(angleVar, r.AngleStat[0]*r.AngleStat[0], r.AngleStat[1]*r.AngleStat[1])
+				}
 			}
 		}
 		g, err := resolution.GaussianCore(neff, 2)
@@ -207,11 +238,34 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		if err != nil {
 			return nil, fmt.Errorf("gentables: vertex shift at %v MeV: %w", e, err)
 		}
-		cal = append(cal, lowenergy.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff)})
-		log.Printf("%s: %5.1f MeV: Neff %.1f sigma %.1f shift %.1f cm (%d fitted of %d)", name, e, g.Mean.Value, g.Sigma.Value, gs.Mean.Value, len(neff), nCal)
+		dirSpread, err := excess(angle, angleVar)
+		if err != nil {
+			return nil, err
+		}
+		along := make([]float64, len(shift))
+		for i, v := range shift {
+			along[i] = v - gs.Mean.Value
+		}
+		shiftSpread, err := excess(along, alongVar)
+		if err != nil {
+			return nil, err
+		}
+		vertexSpread, err := excess(across, acrossVar)
+		if err != nil {
+			return nil, err
+		}
+		highland, err := scatterSpread(e)
+		if err != nil {
+			return nil, err
+		}
+		cal = append(cal, lowenergy.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff),
+			DirSpread: dirSpread, ShiftSpread: shiftSpread, VertexSpread: vertexSpread})
+		log.Printf("%s: %5.1f MeV: Neff %.1f sigma %.1f shift %.1f cm spread %.1f cm, across %.1f cm, direction spread %.3f rad (multiple scattering of the light-weighted direction %.3f) (%d fitted of %d)",
+			name, e, g.Mean.Value, g.Sigma.Value, gs.Mean.Value, shiftSpread, vertexSpread, dirSpread, highland, len(neff), nCal)
+		t.Meta[fmt.Sprintf("scattering_%g_MeV", e)] = fmt.Sprintf("%.4f rad", highland)
 	}
 	t.Energy = cal
-	t.Meta["calibration"] = fmt.Sprintf("%d electrons per energy, triggered and converged fits, Gaussian cores (2 sigma) of Neff and of the vertex shift along the fitted direction", nCal)
+	t.Meta["calibration"] = fmt.Sprintf("%d electrons per energy, triggered and converged fits, Gaussian cores (2 sigma) of Neff, of the vertex shift along the fitted direction, of the light point across it and of the projected direction angles; spreads are the excess in quadrature that gives unit Gaussian-core pull width", nCal)
 	return t, t.Validate()
 }
 
@@ -265,4 +319,45 @@ func uniformDensity(edges []float64) []lowenergy.Bin {
 		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
 	}
 	return bins
+}
+
+// excess returns the spread v shared by the events of a sample beyond
+// their statistical variances: the v >= 0 for which the deviations
+// dev[i] / sqrt(stat[i] + v^2) have a Gaussian core (2 sigma) of unit
+// width, 0 when they are narrower already. It is found by bisection (the
+// width falls as v grows).
+func excess(dev, stat []float64) (float64, error) {
+	if len(dev) == 0 {
+		return 0, nil
+	}
+	width := func(v float64) (float64, error) {
+		p := make([]float64, len(dev))
+		for i := range dev {
+			p[i] = dev[i] / math.Sqrt(stat[i]+v*v)
+		}
+		g, err := resolution.GaussianCore(p, 2)
+		return g.Sigma.Value, err
+	}
+	w0, err := width(0)
+	if err != nil || w0 <= 1 {
+		return 0, err
+	}
+	core, err := resolution.GaussianCore(dev, 2)
+	if err != nil {
+		return 0, err
+	}
+	lo, hi := 0.0, 2*core.Sigma.Value
+	for range 50 {
+		m := 0.5 * (lo + hi)
+		w, err := width(m)
+		if err != nil {
+			return 0, err
+		}
+		if w > 1 {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return 0.5 * (lo + hi), nil
 }
