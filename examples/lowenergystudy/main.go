@@ -30,9 +30,9 @@ import (
 )
 
 var usage = cli.Usage{
-	Name: "lowenergystudy",
-	Does: "Measures the low-energy fitter's pull widths (vertex x, y, z, time, two direction angles, energy), the along-track vertex offset and the far-miss fraction among converged and unflagged fits, for electrons at each energy.",
-	Writes: "a table on standard output",
+	Name:    "lowenergystudy",
+	Does:    "Measures the low-energy fitter's pull widths (vertex x, y, z, time, two direction angles, energy), the along-track vertex offset and the far-miss fraction among converged and unflagged fits, for electrons at each energy.",
+	Writes:  "a table on standard output",
 	Example: "go run ./examples/lowenergystudy -tank large -energies 5,10,20,50 -n 2000",
 }
 

@@ -52,4 +52,3 @@ func TestDarkNoiseIsNoEvent(t *testing.T) {
 		}
 	}
 }
-
