@@ -22,6 +22,7 @@ import (
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
@@ -42,6 +43,7 @@ func main() {
 	n := flag.Int("n", 500, "events per energy")
 	seed := flag.Uint64("seed", 11, "run seed")
 	fid := flag.Float64("fiducial", 100, "minimum distance of the vertices from the sensor surface, cm")
+	sensor := flag.String("sensor", "", "sensor class replacing the tank's own (small, medium, large; empty: the tank's own)")
 	cli.Parse(usage)
 	var es []float64
 	for _, s := range strings.Split(*energies, ",") {
@@ -54,7 +56,7 @@ func main() {
 	if *n < 10 {
 		log.Fatalf("lowenergystudy: -n = %d: need at least 10 events", *n)
 	}
-	if err := run(os.Stdout, *tank, es, *n, *seed, *fid); err != nil {
+	if err := run(os.Stdout, *tank, *sensor, es, *n, *seed, *fid); err != nil {
 		log.Fatal(err)
 	}
 }
@@ -78,8 +80,9 @@ type Study struct {
 	// Pulls: x, y, z, t, angle 1, angle 2, energy.
 	Pulls [7]resolution.Gaussian
 	// AngleRatio68 is the 68% quantile of the angle to the truth over
-	// the quadrature sum of the two angle errors (1.51 for calibrated
-	// Gaussian errors: the 68% point of a Rayleigh distribution).
+	// the quadrature sum of the two angle errors (1.07 for calibrated
+	// Gaussian errors: the 68% point of a Rayleigh distribution, 1.51
+	// sigma, over sqrt(2) sigma).
 	AngleRatio68 resolution.Estimate
 	// Along is the median along-track vertex offset (cm).
 	Along resolution.Estimate
@@ -87,16 +90,28 @@ type Study struct {
 	Far, FarUnflagged int
 }
 
-func run(w *os.File, tank string, es []float64, n int, seed uint64, fid float64) error {
+func run(w *os.File, tank, sensor string, es []float64, n int, seed uint64, fid float64) error {
 	cfg, err := config(tank, seed)
 	if err != nil {
 		return err
+	}
+	if sensor != "" {
+		switch sensor {
+		case "small":
+			cfg.Sensor = pmt.Small()
+		case "medium":
+			cfg.Sensor = pmt.Medium()
+		case "large":
+			cfg.Sensor = pmt.Large()
+		default:
+			return fmt.Errorf("lowenergystudy: -sensor %q: want small, medium or large", sensor)
+		}
 	}
 	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "%s tank, tables %q, %d events per energy, seed %d, vertices >= %g cm inside the sensor surface\n", tank, f.Tables().Name, n, seed, fid)
+	fmt.Fprintf(w, "%s tank, %s sensors, tables %q, %d events per energy, seed %d, vertices >= %g cm inside the sensor surface\n", tank, cfg.Sensor.Name, f.Tables().Name, n, seed, fid)
 	fmt.Fprintf(w, "%6s %6s %6s %6s | %-15s %-15s %-15s %-15s %-15s %-15s %-15s | %-13s %-14s | %s\n",
 		"E/MeV", "trig", "conv", "flag", "pull x", "pull y", "pull z", "pull t", "pull ang1", "pull ang2", "pull E", "ang/err 68%", "along med/cm", "far>3m all/unflagged")
 	for k, e := range es {

@@ -80,6 +80,16 @@ func (f *Fitter) energyFromNeff(neff float64) (e, sigma, shift float64, cp Calib
 	}
 	w := math.Min(math.Max((e-a.Ekin)/(b.Ekin-a.Ekin), 0), 1)
 	sigma = f.energySigma[k] + w*(f.energySigma[k+1]-f.energySigma[k])
+	// Outside the calibration the spread is not frozen at the end
+	// point's: the photon count's Poisson spread scales as sqrt(E), and
+	// the unknown shape of the calibration beyond its range adds the
+	// whole distance to it (a straight-line extrapolation may be off by
+	// as much as it extends).
+	if lo, hi := cal[0].Ekin, cal[len(cal)-1].Ekin; e > hi {
+		sigma = math.Hypot(f.energySigma[len(cal)-1]*math.Sqrt(e/hi), e-hi)
+	} else if e < lo {
+		sigma = math.Hypot(f.energySigma[0]*math.Sqrt(math.Max(e, 0)/lo), lo-e)
+	}
 	cp = CalibrationPoint{
 		Ekin:         e,
 		Shift:        a.Shift + w*(b.Shift-a.Shift),

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/diff/fd"
@@ -115,7 +116,6 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 		}
 	}
 	res.Ambiguity = f.ambiguity(sc, x)
-	res.Suspect = res.Ambiguity < suspectAmbiguity
 	// Uncertainties from the curvature of -log L at the maximum. Without
 	// a positive definite curvature the point is no proper maximum.
 	cov, ok := f.vertexCovariance(sc, x)
@@ -163,9 +163,17 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	if status == fit.Converged && !finiteResult(&res) {
 		status, reason = fit.NotConverged, "a fitted value or uncertainty is not finite"
 	}
+	if lo, hi := f.EkinRange(); tr.Ekin < lo || tr.Ekin > hi {
+		res.EkinOutside = true
+	}
+	res.Suspect = res.Ambiguity < suspectAmbiguity || !(res.Errors.Vertex.Norm() <= suspectVertexError)
 	res.ErrorsValid = ok && dirOK
 	if status == fit.Converged && !dirOK {
 		reason = "the curvature of the direction likelihood is not positive definite (too few prompt hits or a flat maximum): the angle errors are pi"
+	}
+	if status == fit.Converged && res.EkinOutside {
+		lo, hi := f.EkinRange()
+		reason = strings.TrimPrefix(reason+"; ", "; ") + fmt.Sprintf("the energy %.4g MeV is outside the calibration [%g, %g] MeV: extrapolated, with the distance to the range in its error", tr.Ekin, lo, hi)
 	}
 	res.Status, res.Reason = status, reason
 	return res, nil
@@ -679,9 +687,12 @@ func (f *Fitter) darkOnly(sc *scratch) (float64, bool) {
 // flagged (Result.Suspect): a second maximum along the ring axis at
 // least ambiguityDistance away that is less than e^4 (about 55) times less
 // likely than the best is no safe choice between the two.
+// suspectVertexError (cm) is the vertex uncertainty beyond which a fit
+// is flagged as well: the hits do not place the event.
 const (
-	suspectAmbiguity  = 4
-	ambiguityDistance = 200 // cm
+	suspectVertexError = 100
+	suspectAmbiguity   = 4
+	ambiguityDistance  = 200 // cm
 )
 
 // ambiguity returns the log-likelihood margin of the maximum x over the

@@ -66,11 +66,18 @@ type Result struct {
 	// that do not.
 	Goodness float64
 
+	// EkinOutside says that Track.Ekin lies outside the energy
+	// calibration (Fitter.EkinRange): the energy is extrapolated linearly,
+	// and its error adds the distance to the range to the end point's
+	// spread scaled as sqrt(Ekin); Reason says so.
+	EkinOutside bool
+
 	// Ambiguity is the log-likelihood margin of the maximum over the best
 	// point along the ring axis at least 2 m away (time profiled): small
 	// when the likelihood's valley along the axis has a second maximum
 	// nearly as good, where a fit may have landed on the wrong side.
-	// Suspect is Ambiguity < 4: the fit may be far (metres) from the
+	// Suspect is Ambiguity < 4 or a vertex uncertainty (the length of
+	// Errors.Vertex) beyond 1 m: the fit may be far (metres) from the
 	// truth; users wanting clean samples drop suspect fits.
 	Ambiguity float64
 	Suspect   bool
