@@ -65,8 +65,8 @@ type Tables struct {
 	// Name identifies the table set (e.g. "demo", "large").
 	Name string
 	// TankRadius and TankHalfHeight (cm) are the sensor-surface size of the
-	// detector the tables were made for; New picks the embedded set whose
-	// size is closest to the detector's.
+	// detector the tables were made for (information only: New chooses
+	// tables by their Dependencies, never by tank size).
 	TankRadius, TankHalfHeight float64
 	// TTS (ns, Gaussian sigma) is the transit-time spread the residual
 	// table already contains (0 for the intrinsic table); New convolves it
@@ -118,27 +118,6 @@ func EmbeddedTableNames() []string {
 	}
 	sort.Strings(names)
 	return names
-}
-
-// closestEmbedded returns the embedded table set whose tank size is
-// closest (in log of radius and half height) to the given one.
-func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
-	var best *Tables
-	bestD := math.Inf(1)
-	for _, name := range EmbeddedTableNames() {
-		t, err := EmbeddedTables(name)
-		if err != nil {
-			return nil, err
-		}
-		d := math.Abs(math.Log(radius/t.TankRadius)) + math.Abs(math.Log(halfHeight/t.TankHalfHeight))
-		if d < bestD {
-			best, bestD = t, d
-		}
-	}
-	if best == nil {
-		return nil, errors.New("lowenergy: no embedded tables")
-	}
-	return best, nil
 }
 
 // maxBins bounds the bins of a tabulated density (the embedded sets have

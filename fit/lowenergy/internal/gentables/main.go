@@ -22,14 +22,24 @@
 //  3. Energy calibration: the real sensor with dark noise and the default
 //     trigger; each triggered event is fitted with the tables of steps 1
 //     and 2, and the Gaussian core of the effective hit count at each
-//     energy is recorded.
+//     energy is recorded, with the vertex shift and the event-to-event
+//     spreads of the direction, the shift and the light point across
+//     the track that the statistical errors miss (lowenergy.CalibrationPoint).
+//
+// The tables record the detector facts they depend on and a provenance
+// hash (lowenergy.Dependencies). For a detector no embedded set fits,
+// -sensor and -coverage line the config's tank anew:
+//
+//	go run ./fit/lowenergy/internal/gentables -config demo -sensor small -coverage 0.2 -out mytables.txt
 package main
 
 import (
 	"flag"
 	"fmt"
 	"log"
+	"maps"
 	"math"
+	"strings"
 
 	"github.com/golang/geo/r3"
 
@@ -37,6 +47,8 @@ import (
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -49,6 +61,8 @@ func main() {
 	nCal := flag.Int("calib", 1000, "events per calibration energy")
 	withTTS := flag.Bool("sensor-tts", false, "tabulate residuals with the sensor's own TTS instead of the intrinsic (TTS = 0) density")
 	fiducial := flag.Float64("fiducial", 0, "fiducial distance from the sensor surface, cm (0: 100 demo, 200 large)")
+	sensor := flag.String("sensor", "", "sensor class replacing the config's own: small, medium or large (empty: the config's)")
+	coverage := flag.Float64("coverage", 0, "photocathode coverage replacing the config's own, in (0, 0.9) (0: the config's)")
 	flag.Parse()
 	if *out == "" {
 		log.Fatal("gentables: -out is required")
@@ -60,13 +74,49 @@ func main() {
 	if *fiducial > 0 {
 		fid = *fiducial
 	}
-	t, err := generate(*configName, cfg, fid, *seed, *nShape, *nCal, *withTTS)
+	name := *configName
+	if *sensor != "" || *coverage != 0 {
+		if cfg, err = relined(cfg, *sensor, *coverage); err != nil {
+			log.Fatal(err)
+		}
+		name = fmt.Sprintf("%s-%s-%.0f", name, strings.ToLower(cfg.Sensor.Name), 100*cfg.Detector.Coverage())
+	}
+	t, err := generate(name, cfg, fid, *seed, *nShape, *nCal, *withTTS)
 	if err != nil {
 		log.Fatal(err)
 	}
 	if err := lowenergy.SaveTables(*out, t); err != nil {
 		log.Fatal(err)
 	}
+}
+
+// relined returns cfg with its tank lined anew (geom.Layout) with the
+// named sensor class and coverage (empty or 0: the config's own).
+func relined(cfg sim.Config, sensor string, coverage float64) (sim.Config, error) {
+	switch sensor {
+	case "":
+	case "small":
+		cfg.Sensor = pmt.Small()
+	case "medium":
+		cfg.Sensor = pmt.Medium()
+	case "large":
+		cfg.Sensor = pmt.Large()
+	default:
+		return cfg, fmt.Errorf("gentables: -sensor %q: want small, medium or large", sensor)
+	}
+	if coverage == 0 {
+		coverage = cfg.Detector.Coverage()
+	}
+	if !(coverage > 0 && coverage < 0.9) {
+		return cfg, fmt.Errorf("gentables: -coverage %v: want a value in (0, 0.9)", coverage)
+	}
+	det, err := geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, coverage)
+	if err != nil {
+		return cfg, fmt.Errorf("gentables: %w", err)
+	}
+	cfg.Detector = det
+	cfg.Dead = nil
+	return cfg, nil
 }
 
 func config(name string, seed uint64) (sim.Config, float64, error) {
@@ -265,6 +315,11 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		t.Meta[fmt.Sprintf("scattering_%g_MeV", e)] = fmt.Sprintf("%.4f rad", highland)
 	}
 	t.Energy = cal
+	deps, err := lowenergy.DependenciesOf(cfg.Setup)
+	if err != nil {
+		return nil, err
+	}
+	maps.Copy(t.Meta, deps.Meta())
 	t.Meta["calibration"] = fmt.Sprintf("%d electrons per energy, triggered and converged fits, Gaussian cores (2 sigma) of Neff, of the vertex shift along the fitted direction, of the light point across it and of the projected direction angles; spreads are the excess in quadrature that gives unit Gaussian-core pull width", nCal)
 	return t, t.Validate()
 }

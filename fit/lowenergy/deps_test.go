@@ -1,0 +1,88 @@
+package lowenergy_test
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/conelight/conelight/fit/internal/sample"
+	"github.com/conelight/conelight/fit/lowenergy"
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/setup"
+)
+
+// TestEmbeddedTablesFresh fails when an embedded table set no longer
+// matches the code: its recorded provenance hash (dependencies on the
+// detector it was made for, lowenergy.TablesVersion, physics constants)
+// differs from the one the code computes for that detector today.
+func TestEmbeddedTablesFresh(t *testing.T) {
+	for _, name := range lowenergy.EmbeddedTableNames() {
+		tab, err := lowenergy.EmbeddedTables(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var cfg sim.Config
+		switch name {
+		case "demo":
+			cfg, err = sim.DemoConfig(1)
+		case "large":
+			cfg, err = sample.LargeConfig(1)
+		default:
+			t.Fatalf("embedded table set %q: no detector known for it in this test", name)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		deps, err := lowenergy.DependenciesOf(cfg.Setup)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := deps.Meta()["hash"]
+		if got := tab.Meta["hash"]; got != want {
+			t.Errorf("embedded tables %q are stale: recorded hash %q, the code gives %q for the detector they were made for; regenerate with: go generate ./fit/lowenergy", name, got, want)
+		}
+	}
+}
+
+// TestTablesChosenByDependencies checks that New picks the embedded
+// tables by the sensor, coverage and water, never by the tank: the large
+// tank lined with the demo's medium sensors at 30% gets the demo tables
+// without warning, and the demo tank lined with small sensors gets a
+// warning naming the mismatch and the command that makes tables.
+func TestTablesChosenByDependencies(t *testing.T) {
+	lined := func(tank geom.Tank, m pmt.Model, coverage float64) setup.Setup {
+		det, err := geom.Layout(tank, m.CathodeDiameter, coverage)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return setup.Setup{Detector: det, Sensor: m}
+	}
+	cases := []struct {
+		name   string
+		s      setup.Setup
+		tables string
+		warn   string
+	}{
+		{"demo", lined(geom.DemoTank(), pmt.Medium(), 0.30), "demo", ""},
+		{"large", lined(geom.LargeTank(), pmt.Large(), 0.40), "large", ""},
+		{"large tank, medium sensors at 30%", lined(geom.LargeTank(), pmt.Medium(), 0.30), "demo", ""},
+		{"demo tank, small sensors", lined(geom.DemoTank(), pmt.Small(), 0.30), "", "photocathode diameter"},
+	}
+	for _, c := range cases {
+		f, err := lowenergy.New(lowenergy.Config{Setup: c.s})
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		w := f.TablesWarning()
+		if c.tables != "" && f.Tables().Name != c.tables {
+			t.Errorf("%s: tables %q, want %q", c.name, f.Tables().Name, c.tables)
+		}
+		if c.warn == "" && w != "" {
+			t.Errorf("%s: unexpected warning %q", c.name, w)
+		}
+		if c.warn != "" && (!strings.Contains(w, c.warn) || !strings.Contains(w, "gentables")) {
+			t.Errorf("%s: warning %q, want one naming %q and the gentables command", c.name, w, c.warn)
+		}
+	}
+}
