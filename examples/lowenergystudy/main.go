@@ -12,6 +12,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"io"
 	"log"
 	"math"
 	"os"
@@ -22,6 +23,7 @@ import (
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
@@ -43,7 +45,7 @@ func main() {
 	n := flag.Int("n", 500, "events per energy")
 	seed := flag.Uint64("seed", 11, "run seed")
 	fid := flag.Float64("fiducial", 100, "minimum distance of the vertices from the sensor surface, cm")
-	sensor := flag.String("sensor", "", "sensor class replacing the tank's own (small, medium, large; empty: the tank's own)")
+	sensor := flag.String("sensor", "", "sensor class lining the tank instead of its own, at the same coverage (small, medium, large; empty: the tank's own)")
 	cli.Parse(usage)
 	var es []float64
 	for _, s := range strings.Split(*energies, ",") {
@@ -90,7 +92,7 @@ type Study struct {
 	Far, FarUnflagged int
 }
 
-func run(w *os.File, tank, sensor string, es []float64, n int, seed uint64, fid float64) error {
+func run(w io.Writer, tank, sensor string, es []float64, n int, seed uint64, fid float64) error {
 	cfg, err := config(tank, seed)
 	if err != nil {
 		return err
@@ -106,10 +108,19 @@ func run(w *os.File, tank, sensor string, es []float64, n int, seed uint64, fid 
 		default:
 			return fmt.Errorf("lowenergystudy: -sensor %q: want small, medium or large", sensor)
 		}
+		// Line the tank anew with the sensor class at the same coverage.
+		det, err := geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, cfg.Detector.Coverage())
+		if err != nil {
+			return err
+		}
+		cfg.Detector, cfg.Dead = det, nil
 	}
 	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
 	if err != nil {
 		return err
+	}
+	if msg := f.TablesWarning(); msg != "" {
+		fmt.Fprintln(w, "warning:", msg)
 	}
 	fmt.Fprintf(w, "%s tank, %s sensors, tables %q, %d events per energy, seed %d, vertices >= %g cm inside the sensor surface\n", tank, cfg.Sensor.Name, f.Tables().Name, n, seed, fid)
 	fmt.Fprintf(w, "%6s %6s %6s %6s | %-15s %-15s %-15s %-15s %-15s %-15s %-15s | %-13s %-14s | %s\n",

@@ -165,11 +165,7 @@ func renderLowEnergyDemo(root string) (string, error) {
 		}
 		frac := func(name string) string {
 			f := fig[name]
-			bin, err := resolution.Proportion(f.K, f.N)
-			if err != nil {
-				return "-"
-			}
-			return bin.Percent()
+			return fmt.Sprintf("%d/%d", f.K, f.N)
 		}
 		nc := fig["not_converged"]
 		fmt.Fprintf(&out, "| %g | %d/%d | %s | %s | %s%% | %s | %s | %s | %s |\n", p.Sample.Ekin, nc.N-nc.K, nc.N,
