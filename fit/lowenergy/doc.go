@@ -64,7 +64,11 @@
 // A fit is Suspect when a point at least 2 m away along the ring axis has
 // a log-likelihood within 4 of the maximum (Result.Ambiguity: the valley
 // along the axis has a second maximum, and such fits can land metres
-// from the truth) or when its vertex uncertainty exceeds 1 m. Energies
+// from the truth), when its vertex uncertainty exceeds 1 m, or when the
+// margin is below 12 and the prompt hits fit the direction density better
+// than it expects by more than 2 standard deviations (Result.DirGoodness:
+// hits on a cone narrower than Cherenkov's, as seen from a vertex behind
+// the truth on the axis). Energies
 // outside the calibration are extrapolated and flagged
 // (Result.EkinOutside) with errors that grow with the distance to the
 // range. Two hits of one sensor within its integration gate are an error

@@ -146,6 +146,10 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	res.VertexCRB = f.cramerRao(sc, x, fisher)
 
 	res.DirLogLikelihood = dirLogL
+	if np := float64(len(sc.prompt)); np > 0 {
+		m, v := dirMoments(&sc.logDir)
+		res.DirGoodness = (dirLogL - np*m) / math.Sqrt(np*v)
+	}
 	res.Prompt = len(sc.prompt)
 	res.Neff = f.effectiveHits(sc, x)
 	var cp CalibrationPoint
@@ -166,7 +170,8 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	if lo, hi := f.EkinRange(); tr.Ekin < lo || tr.Ekin > hi {
 		res.EkinOutside = true
 	}
-	res.Suspect = res.Ambiguity < suspectAmbiguity || !(res.Errors.Vertex.Norm() <= suspectVertexError)
+	res.Suspect = res.Ambiguity < suspectAmbiguity || !(res.Errors.Vertex.Norm() <= suspectVertexError) ||
+		(res.Ambiguity < narrowAmbiguity && res.DirGoodness > narrowDirGoodness)
 	res.ErrorsValid = ok && dirOK
 	if status == fit.Converged && !dirOK {
 		reason = "the curvature of the direction likelihood is not positive definite (too few prompt hits or a flat maximum): the angle errors are pi"
@@ -687,6 +692,17 @@ func (f *Fitter) darkOnly(sc *scratch) (float64, bool) {
 // flagged (Result.Suspect): a second maximum along the ring axis at
 // least ambiguityDistance away that is less than e^4 (about 55) times less
 // likely than the best is no safe choice between the two.
+// narrowAmbiguity and narrowDirGoodness flag the fits that sit behind
+// the true vertex on the ring axis: seen from there the hits lie on a
+// cone narrower than the Cherenkov angle's, so the direction likelihood
+// is better than the density expects (DirGoodness above 2, which about
+// one good fit in ten also reaches), and a second maximum along the axis
+// is within a likelihood ratio of e^12.
+const (
+	narrowAmbiguity   = 12
+	narrowDirGoodness = 2
+)
+
 // suspectVertexError (cm) is the vertex uncertainty beyond which a fit
 // is flagged as well: the hits do not place the event.
 const (

@@ -72,13 +72,22 @@ type Result struct {
 	// spread scaled as sqrt(Ekin); Reason says so.
 	EkinOutside bool
 
+	// DirGoodness is the standardized direction log-likelihood, (logL -
+	// N E[log g]) / sqrt(N Var[log g]) under the direction density g of
+	// the N prompt hits: strongly positive when the hits sit at a narrower
+	// cone than the Cherenkov angle's, as seen from a vertex behind the
+	// true one on the ring axis.
+	DirGoodness float64
+
 	// Ambiguity is the log-likelihood margin of the maximum over the best
 	// point along the ring axis at least 2 m away (time profiled): small
 	// when the likelihood's valley along the axis has a second maximum
 	// nearly as good, where a fit may have landed on the wrong side.
-	// Suspect is Ambiguity < 4 or a vertex uncertainty (the length of
-	// Errors.Vertex) beyond 1 m: the fit may be far (metres) from the
-	// truth; users wanting clean samples drop suspect fits.
+	// Suspect is Ambiguity < 4, a vertex uncertainty (the length of
+	// Errors.Vertex) beyond 1 m, or Ambiguity < 12 with DirGoodness > 2
+	// (the hits look like a cone narrower than Cherenkov's, as from a
+	// vertex behind the truth on the axis): the fit may be far (metres)
+	// from the truth; users wanting clean samples drop suspect fits.
 	Ambiguity float64
 	Suspect   bool
 
