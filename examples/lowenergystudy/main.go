@@ -86,8 +86,9 @@ type Study struct {
 	// Gaussian errors: the 68% point of a Rayleigh distribution, 1.51
 	// sigma, over sqrt(2) sigma).
 	AngleRatio68 resolution.Estimate
-	// Along is the median along-track vertex offset (cm).
-	Along resolution.Estimate
+	// Along is the median along-track vertex offset (cm) of the converged
+	// fits, AlongClean that of the converged fits not flagged Suspect.
+	Along, AlongClean resolution.Estimate
 	// Far and FarUnflagged count converged fits more than 3 m from the truth.
 	Far, FarUnflagged int
 }
@@ -124,16 +125,16 @@ func run(w io.Writer, tank, sensor string, es []float64, n int, seed uint64, fid
 	}
 	fmt.Fprintf(w, "%s tank, %s sensors, tables %q, %d events per energy, seed %d, vertices >= %g cm inside the sensor surface\n", tank, cfg.Sensor.Name, f.Tables().Name, n, seed, fid)
 	fmt.Fprintf(w, "%6s %6s %6s %6s | %-15s %-15s %-15s %-15s %-15s %-15s %-15s | %-13s %-14s | %s\n",
-		"E/MeV", "trig", "conv", "flag", "pull x", "pull y", "pull z", "pull t", "pull ang1", "pull ang2", "pull E", "ang/err 68%", "along med/cm", "far>3m all/unflagged")
+		"E/MeV", "trig", "conv", "flag", "pull x", "pull y", "pull z", "pull t", "pull ang1", "pull ang2", "pull E", "ang/err 68%", "along med/cm all, unflagged", "far>3m all/unflagged")
 	for k, e := range es {
 		s, err := measure(cfg, f, e, fid, uint64(k)*uint64(n), n)
 		if err != nil {
 			return err
 		}
 		p := s.Pulls
-		fmt.Fprintf(w, "%6g %6d %6d %6d | %-15v %-15v %-15v %-15v %-15v %-15v %-15v | %-13v %-14v | %d/%d, %d/%d\n",
+		fmt.Fprintf(w, "%6g %6d %6d %6d | %-15v %-15v %-15v %-15v %-15v %-15v %-15v | %-13v %v, %v | %d/%d, %d/%d\n",
 			e, s.Triggered, s.Converged, s.Flagged, p[0].Sigma, p[1].Sigma, p[2].Sigma, p[3].Sigma, p[4].Sigma, p[5].Sigma, p[6].Sigma,
-			s.AngleRatio68, s.Along, s.Far, s.Converged, s.FarUnflagged, s.Converged-s.Flagged)
+			s.AngleRatio68, s.Along, s.AlongClean, s.Far, s.Converged, s.FarUnflagged, s.Converged-s.Flagged)
 	}
 	return nil
 }
@@ -152,7 +153,7 @@ func measure(cfg sim.Config, f *lowenergy.Fitter, e, fid float64, first uint64, 
 		return s, err
 	}
 	var pulls [7][]float64
-	var ratio, along []float64
+	var ratio, along, alongClean []float64
 	err = simr.Run(context.Background(), gun, sim.RunOptions{First: first, Count: uint64(n)}, func(ev *event.Event) error {
 		s.Triggered++
 		r, err := f.Fit(ev.Hits)
@@ -184,6 +185,9 @@ func measure(cfg sim.Config, f *lowenergy.Fitter, e, fid float64, first uint64, 
 		}
 		ratio = append(ratio, angle/math.Hypot(er.Angle[0], er.Angle[1]))
 		along = append(along, d.Dot(p.Dir))
+		if !r.Suspect {
+			alongClean = append(alongClean, d.Dot(p.Dir))
+		}
 		return nil
 	})
 	if err != nil {
@@ -202,6 +206,11 @@ func measure(cfg sim.Config, f *lowenergy.Fitter, e, fid float64, first uint64, 
 	}
 	if s.Along, err = resolution.Quantile(along, 0.5); err != nil {
 		return s, err
+	}
+	if len(alongClean) > 0 {
+		if s.AlongClean, err = resolution.Quantile(alongClean, 0.5); err != nil {
+			return s, err
+		}
 	}
 	return s, nil
 }
