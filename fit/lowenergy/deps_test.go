@@ -1,6 +1,7 @@
 package lowenergy_test
 
 import (
+	"strconv"
 	"strings"
 	"testing"
 
@@ -22,18 +23,7 @@ func TestEmbeddedTablesFresh(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		var cfg sim.Config
-		switch name {
-		case "demo":
-			cfg, err = sim.DemoConfig(1)
-		case "large":
-			cfg, err = sample.LargeConfig(1)
-		default:
-			t.Fatalf("embedded table set %q: no detector known for it in this test", name)
-		}
-		if err != nil {
-			t.Fatal(err)
-		}
+		cfg := embeddedConfig(t, name)
 		deps, err := lowenergy.DependenciesOf(cfg.Setup)
 		if err != nil {
 			t.Fatal(err)
@@ -45,11 +35,58 @@ func TestEmbeddedTablesFresh(t *testing.T) {
 	}
 }
 
+// embeddedConfig returns the detector the embedded set name was made
+// for: "demo" or "large", or "<demo|large>-<sensor class>-<coverage %>"
+// for the tank lined anew (gentables -sensor).
+func embeddedConfig(t *testing.T, name string) sim.Config {
+	t.Helper()
+	parts := strings.Split(name, "-")
+	var cfg sim.Config
+	var err error
+	switch parts[0] {
+	case "demo":
+		cfg, err = sim.DemoConfig(1)
+	case "large":
+		cfg, err = sample.LargeConfig(1)
+	default:
+		t.Fatalf("embedded table set %q: no detector known for it in this test", name)
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(parts) == 1 {
+		return cfg
+	}
+	if len(parts) != 3 {
+		t.Fatalf("embedded table set %q: want base-sensor-coverage", name)
+	}
+	switch parts[1] {
+	case "small":
+		cfg.Sensor = pmt.Small()
+	case "medium":
+		cfg.Sensor = pmt.Medium()
+	case "large":
+		cfg.Sensor = pmt.Large()
+	default:
+		t.Fatalf("embedded table set %q: unknown sensor class %q", name, parts[1])
+	}
+	cov, err := strconv.ParseFloat(parts[2], 64)
+	if err != nil {
+		t.Fatalf("embedded table set %q: %v", name, err)
+	}
+	if cfg.Detector, err = geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, cov/100); err != nil {
+		t.Fatal(err)
+	}
+	cfg.Dead = nil
+	return cfg
+}
+
 // TestTablesChosenByDependencies checks that New picks the embedded
 // tables by the sensor, coverage and water, never by the tank: the large
 // tank lined with the demo's medium sensors at 30% gets the demo tables
-// without warning, and the demo tank lined with small sensors gets a
-// warning naming the mismatch and the command that makes tables.
+// without warning, and the demo tank lined with small sensors at 15%
+// (no built-in set) gets a warning naming the mismatch and the command
+// that makes tables.
 func TestTablesChosenByDependencies(t *testing.T) {
 	lined := func(tank geom.Tank, m pmt.Model, coverage float64) setup.Setup {
 		det, err := geom.Layout(tank, m.CathodeDiameter, coverage)
@@ -67,7 +104,7 @@ func TestTablesChosenByDependencies(t *testing.T) {
 		{"demo", lined(geom.DemoTank(), pmt.Medium(), 0.30), "demo", ""},
 		{"large", lined(geom.LargeTank(), pmt.Large(), 0.40), "large", ""},
 		{"large tank, medium sensors at 30%", lined(geom.LargeTank(), pmt.Medium(), 0.30), "demo", ""},
-		{"demo tank, small sensors", lined(geom.DemoTank(), pmt.Small(), 0.30), "", "photocathode diameter"},
+		{"demo tank, small sensors at 15%", lined(geom.DemoTank(), pmt.Small(), 0.15), "", "photocathode coverage"},
 	}
 	for _, c := range cases {
 		f, err := lowenergy.New(lowenergy.Config{Setup: c.s})

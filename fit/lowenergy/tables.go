@@ -20,6 +20,10 @@ import (
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
 //go:generate go run ./internal/gentables -config large -out data/large.txt
+//go:generate go run ./internal/gentables -config demo -sensor small -out data/demo-small-30.txt
+//go:generate go run ./internal/gentables -config demo -sensor large -out data/demo-large-30.txt
+//go:generate go run ./internal/gentables -config large -sensor small -out data/large-small-40.txt
+//go:generate go run ./internal/gentables -config large -sensor medium -out data/large-medium-40.txt
 
 //go:embed data/*.txt
 var embeddedTables embed.FS
