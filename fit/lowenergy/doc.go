@@ -102,8 +102,10 @@
 //
 // The densities and the calibration (Tables) come from the event
 // simulator and are embedded from data/*.txt: "demo" (demo tank, medium
-// sensors, 30% coverage) and "large" (large reference tank, large
-// sensors, 40%). Each records what it depends on (Dependencies: sensor
+// sensors, 30% coverage), "large" (large reference tank, large sensors,
+// 40%), and the built-in tanks lined with the other sensor classes
+// ("demo-small-30", "demo-large-30", "large-small-40",
+// "large-medium-40"). Each records what it depends on (Dependencies: sensor
 // timing and size, coverage, water) and its provenance (generator
 // version TablesVersion, seed, a hash of both). New picks the set whose
 // dependencies match the detector's within 5%, never by tank size; when
@@ -112,12 +114,11 @@
 // (GenerateCommand). The
 // residual table is intrinsic (sensors without transit-time spread,
 // Tables.TTS = 0); New convolves it with the sensor's TTS and sets the
-// dark level from the sensor's dark rate, so other sensors need no new
-// tables (the convolution treats the first of several photoelectrons on
+// dark level from the sensor's dark rate (the convolution treats the first of several photoelectrons on
 // a sensor like a single one, which makes multi-photoelectron hits appear
 // later and wider than they are). The direction table belongs to the
-// prompt window of the sensor it was made with. To regenerate (about a
-// minute on two cores):
+// prompt window of the sensor it was made with. To regenerate (about ten
+// minutes on two cores for the six sets):
 //
 //	go generate ./fit/lowenergy
 //

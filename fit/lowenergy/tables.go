@@ -104,7 +104,9 @@ func (t *Tables) clone() *Tables {
 
 // EmbeddedTables returns the table set embedded in the package under name
 // ("demo" for the demo tank with medium sensors, "large" for the 40 m
-// class tank with large sensors).
+// class tank with large sensors, "<tank>-<sensor class>-<coverage %>"
+// for a built-in tank lined with another class; EmbeddedTableNames lists
+// them).
 func EmbeddedTables(name string) (*Tables, error) {
 	b, err := embeddedTables.ReadFile("data/" + name + ".txt")
 	if err != nil {
