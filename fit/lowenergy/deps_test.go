@@ -1,6 +1,7 @@
 package lowenergy_test
 
 import (
+	"math"
 	"strconv"
 	"strings"
 	"testing"
@@ -70,11 +71,13 @@ func embeddedConfig(t *testing.T, name string) sim.Config {
 	default:
 		t.Fatalf("embedded table set %q: unknown sensor class %q", name, parts[1])
 	}
-	cov, err := strconv.ParseFloat(parts[2], 64)
-	if err != nil {
-		t.Fatalf("embedded table set %q: %v", name, err)
+	// The go:generate lines reline at the base detector's own coverage
+	// (gentables without -coverage); the name shows it rounded.
+	cov := cfg.Detector.Coverage()
+	if pc, err := strconv.ParseFloat(parts[2], 64); err != nil || math.Abs(pc-100*cov) > 0.5 {
+		t.Fatalf("embedded table set %q: coverage %q in the name, the base detector has %.1f%%", name, parts[2], 100*cov)
 	}
-	if cfg.Detector, err = geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, cov/100); err != nil {
+	if cfg.Detector, err = geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, cov); err != nil {
 		t.Fatal(err)
 	}
 	cfg.Dead = nil
