@@ -3,6 +3,7 @@ module github.com/conelight/conelight
 go 1.26
 
 require (
+	github.com/BurntSushi/toml v1.6.0
 	github.com/golang/geo v0.0.0-20260818125358-b200a1149890
 	go-hep.org/x/hep v0.36.0
 	gonum.org/v1/gonum v0.17.0

@@ -5,9 +5,13 @@ package fit
 type Status int
 
 const (
+	// NotFitted is the zero value: no fit was made (a zero Result). No
+	// fitter returns it, so a Result that was never filled in is never
+	// taken for a converged fit.
+	NotFitted Status = iota
 	// Converged: the minimizer met its convergence criterion inside the
 	// allowed region, and every reported value is finite.
-	Converged Status = iota
+	Converged
 	// NoHits: the event has no usable hits.
 	NoHits
 	// TooFewHits: fewer usable hits than the fit has parameters.
@@ -32,6 +36,7 @@ const (
 )
 
 var statusNames = [...]string{
+	NotFitted:     "not fitted",
 	Converged:     "converged",
 	NoHits:        "no hits",
 	TooFewHits:    "too few hits",

@@ -146,3 +146,26 @@ func TestEfficiency(t *testing.T) {
 		t.Error("Efficiency outside the QE band must be 0")
 	}
 }
+
+func TestPreset(t *testing.T) {
+	for _, name := range PresetNames() {
+		m, err := Preset(name)
+		if err != nil {
+			t.Fatalf("Preset(%q): %v", name, err)
+		}
+		if m.Name != name {
+			t.Errorf("Preset(%q).Name = %q", name, m.Name)
+		}
+		if err := m.Validate(); err != nil {
+			t.Errorf("Preset(%q): %v", name, err)
+		}
+		// A fresh copy: editing it leaves the next one untouched.
+		m.TTS = 99
+		if again, _ := Preset(name); again.TTS == 99 {
+			t.Errorf("Preset(%q) shares state between calls", name)
+		}
+	}
+	if _, err := Preset("medium"); err == nil || !strings.Contains(err.Error(), "Medium") {
+		t.Errorf("Preset(\"medium\") error %v, want one listing the presets", err)
+	}
+}

@@ -1,5 +1,10 @@
 package pmt
 
+import (
+	"fmt"
+	"strings"
+)
+
 // BialkaliQE returns the quantum efficiency of a bialkali photocathode
 // behind borosilicate glass against wavelength (nm), tabulated every 20 nm
 // from 280 to 660 nm and scaled so that its maximum (at 380 nm) is peak.
@@ -100,4 +105,23 @@ func Small() Model {
 		IntegrationWindow:    50,
 		Saturation:           300,
 	}
+}
+
+// PresetNames returns the names Preset accepts, largest sensor first.
+func PresetNames() []string { return []string{"Large", "Medium", "Small"} }
+
+// Preset returns a fresh copy of the preset model called name (exactly as
+// PresetNames spells it; the model's Name is the same). A caller that
+// edits the copy should rename it, so that an edited sensor is never
+// mistaken for the preset.
+func Preset(name string) (Model, error) {
+	switch name {
+	case "Large":
+		return Large(), nil
+	case "Medium":
+		return Medium(), nil
+	case "Small":
+		return Small(), nil
+	}
+	return Model{}, fmt.Errorf("pmt: no sensor preset %q (presets: %s)", name, strings.Join(PresetNames(), ", "))
 }

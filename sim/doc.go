@@ -9,7 +9,10 @@
 //  1. the generator draws the primaries from the event's random stream
 //     EventStream(Seed, number);
 //  2. sim/transport follows them and all their descendants (sim/em for
-//     electrons, positrons and photons, sim/muon for muons);
+//     electrons, positrons and photons, sim/muon for muons, sim/hadron
+//     for charged and neutral pions and protons, sim/neutron for neutrons
+//     to their capture); neutrinos are not followed (fate NotFollowed) and
+//     an unknown PDG code is an error;
 //  3. every charged step above threshold emits its Cherenkov photons
 //     (sim/cherenkov), pre-scaled by the sensors' maximum efficiency, and
 //     each photon is traced at once to the wall (sim/photon), so no event
@@ -37,7 +40,11 @@
 // Count events are cut into n contiguous blocks as equal as possible and
 // shard k makes block k (RunOptions.ShardRange gives its first event
 // number and length); sim/event.Merge joins the shard files. Events stream to the caller in number order, with at most
-// a few per worker in memory.
+// a few per worker in memory. An event with nothing to track (a neutral-
+// current event of a generator file) is counted and reported, not an
+// error; a bad event (a malformed event of a file) stops the run or, with
+// RunOptions.BadEvents = SkipBad, is skipped, counted and reported
+// (RunOptions.OnBad); WriteRun stores both in the run record.
 //
 // # Which water
 //

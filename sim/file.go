@@ -52,9 +52,11 @@ func (s *Simulator) RunInfo(g gen.Generator, opt RunOptions) (event.RunInfo, err
 // the events finished so far (an in-order prefix of the run) are closed
 // into a readable file that records the interruption (the rest of the
 // range as missing, see event.Writer.Interrupt), and ctx's error is
-// returned; on any other error nothing is left under path. A generator
-// that reads a file (SourceGenerator) has its accounting stored in the
-// run record.
+// returned; on any other error nothing is left under path. The events
+// read and those left out (empty, or bad and skipped; see
+// RunOptions.BadEvents), with Run's one-line reason for each, go into the
+// run record (RunInfo.Source) when the generator reads a file
+// (SourceGenerator) or any event was left out.
 func (s *Simulator) WriteRun(ctx context.Context, g gen.Generator, opt RunOptions, path string) (int, error) {
 	if g == nil {
 		return 0, errors.New("sim: WriteRun needs a generator")
@@ -79,6 +81,14 @@ func (s *Simulator) WriteRun(ctx context.Context, g gen.Generator, opt RunOption
 			progress(p)
 		}
 	}
+	var leftOut []string // Run's reasons for the events it left out, in order
+	onBad := opt.OnBad
+	opt.OnBad = func(b BadEvent) {
+		leftOut = append(leftOut, b.Reason)
+		if onBad != nil {
+			onBad(b)
+		}
+	}
 	runErr := s.Run(ctx, g, opt, w.Write)
 	if runErr != nil && !errors.Is(runErr, context.Canceled) && !errors.Is(runErr, context.DeadlineExceeded) {
 		return 0, runErr
@@ -88,8 +98,9 @@ func (s *Simulator) WriteRun(ctx context.Context, g gen.Generator, opt RunOption
 			return 0, err
 		}
 	}
-	if sg, ok := g.(SourceGenerator); ok {
-		if err := w.SetSource(sg.SourceStats()); err != nil {
+	if _, ok := g.(SourceGenerator); ok || len(leftOut) > 0 {
+		src := event.SourceStats{Read: done, Skipped: uint64(len(leftOut)), Reasons: leftOut}
+		if err := w.SetSource(src); err != nil {
 			return 0, err
 		}
 	}

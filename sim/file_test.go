@@ -87,6 +87,17 @@ func TestShardFilesMergeToTheRun(t *testing.T) {
 	if !reflect.DeepEqual(ra.Detector().Sensors(), s.Config().Detector.Sensors()) || !reflect.DeepEqual(ra.Sensor(), s.Config().Sensor) {
 		t.Error("the file does not give back the detector and sensor it was simulated with")
 	}
+	// Merged under the same name, the shards give the unsplit run's bytes.
+	wholeBytes, err := os.ReadFile(whole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := event.Merge(whole, shards...); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := os.ReadFile(whole); err != nil || !bytes.Equal(b, wholeBytes) {
+		t.Errorf("shards merged into %s differ in bytes from the unsplit run (%v)", whole, err)
+	}
 }
 
 func TestWriteRunCancelled(t *testing.T) {
@@ -173,22 +184,24 @@ func TestWriteRunBytesIndependentOfWorkers(t *testing.T) {
 }
 
 // fileGen stands for a generator that reads a file: it numbers its
-// events from 1000 and reports skipping one.
+// events from 1000, and event 2 has nothing to track.
 type fileGen struct{ isoElectrons }
 
 func (g fileGen) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
 	p, info, err := g.isoElectrons.Generate(number, rng, dst)
 	info.SourceEvent = 1000 + int(number)
+	if number == 2 {
+		p, info.Skipped = p[:0], 3
+	}
 	return p, info, err
 }
 
-func (g fileGen) SourceStats() event.SourceStats {
-	return event.SourceStats{Read: 5, Skipped: 1, Reasons: []string{"event 1002 (line 77): no particle the simulator tracks"}}
-}
+func (g fileGen) SourceFile() string { return "file.hepmc3" }
 
 func TestWriteRunSourceGenerator(t *testing.T) {
 	// Events of a file generator keep their number in the file, and the
-	// run record keeps the generator's accounting.
+	// run record keeps the run's accounting of the file: 4 events read,
+	// the empty one left out with its reason.
 	s := demoSim(t, 2, func(c *Config) { c.KeepUntriggered = true })
 	path := filepath.Join(t.TempDir(), "file.root")
 	if _, err := s.WriteRun(context.Background(), fileGen{isoElectrons{6}}, RunOptions{Count: 4}, path); err != nil {
@@ -201,7 +214,9 @@ func TestWriteRunSourceGenerator(t *testing.T) {
 			t.Errorf("event %d: interaction %+v", ev.Number, in)
 		}
 	}
-	if got := r.Run().Source; !reflect.DeepEqual(got, fileGen{}.SourceStats()) {
-		t.Errorf("run record Source = %+v", got)
+	want := event.SourceStats{Read: 4, Skipped: 1, Reasons: []string{
+		"sim: event 2 (test electrons, number 1002 in the file): nothing to track: 3 final-state particles not tracked (0 neutrinos)"}}
+	if got := r.Run().Source; !reflect.DeepEqual(got, want) || len(evs) != 3 {
+		t.Errorf("run record Source = %+v, want %+v; %d events", got, want, len(evs))
 	}
 }

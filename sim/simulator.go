@@ -289,10 +289,8 @@ const exitTolerance = 0.1
 // fate returns a primary's fate from its transport record.
 func (w *worker) fate(pr transport.Primary) phys.Fate {
 	switch {
-	case pr.Skipped:
-		return phys.NoFate
-	case pr.MuonFate != phys.NoFate:
-		return pr.MuonFate
+	case pr.Fate != phys.NoFate:
+		return pr.Fate
 	case pr.Particle.PDG == phys.Gamma:
 		return phys.Interacted
 	}

@@ -17,19 +17,18 @@ import (
 //
 // A generator that reads its events from a file says so by implementing
 // SourceGenerator: its events then record their number in the file
-// (Interaction.FromFile, SourceEvent), and WriteRun stores its
-// accounting of the file (events read, events skipped and why) in the
-// run record (event.RunInfo.Source).
+// (Interaction.FromFile, SourceEvent), and WriteRun stores the run's
+// accounting of the file (events read, events left out and why: empty,
+// or bad and skipped, as Run reports them) in the run record
+// (event.RunInfo.Source). The run keeps the account, not the generator:
+// only the run knows which events it handed on, in order.
 
 // SourceGenerator is a generator that reads its events from a file
 // (HepMC, NuHepMC).
 type SourceGenerator interface {
 	gen.Generator
-	// SourceStats returns the accounting of the file so far: events
-	// read, and those skipped with one reason line each ("event 17 (line
-	// 345): no particle the simulator tracks"). WriteRun calls it after
-	// the run.
-	SourceStats() event.SourceStats
+	// SourceFile names the file the events are read from.
+	SourceFile() string
 }
 
 // Process IDs in the NuHepMC numbering (Gardiner, Isaacson, Pickering,

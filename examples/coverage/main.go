@@ -47,6 +47,7 @@ import (
 	"gonum.org/v1/plot/vg"
 
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/examples/internal/parallel"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
@@ -75,6 +76,7 @@ type options struct {
 	formats     []string
 	quiet       bool
 	fitter      string // auto, low or ring
+	detector    string // -detector (detflag): the tank, water, liner and trigger; empty means the demo tank
 }
 
 // The reference point of the second study axes: the class and coverage the
@@ -114,6 +116,7 @@ func main() {
 	att := flag.String("attenuation", "", "comma-separated water attenuation lengths (cm at 400 nm) at medium 30% (empty: skip)")
 	formats := flag.String("formats", "png,svg", "figure formats: png, svg")
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress on stderr")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage+"; its tank, water, liner and trigger are kept, its sensors replaced at each point")
 	flag.StringVar(&o.fitter, "fitter", "auto", "reconstruction: low (low-energy fit), ring (single-ring fit with e/mu identity, about a second per event), auto (low for e-, e+, gamma up to the top of the low-energy fitter's calibrated range, ring otherwise)")
 	cli.Parse(usage)
 	var err error
@@ -175,10 +178,14 @@ type setup struct {
 // point is the measurement at one setup.
 type point struct {
 	setup
-	reached   float64 // coverage the layout reached
-	sensors   int
-	tts       float64 // ns
-	events    int     // simulated
+	reached float64 // coverage the layout reached
+	sensors int
+	tts     float64 // ns
+	// pureWater says the point's water is pure water at 20 C; waterAtt is
+	// its attenuation length (cm) at attenuationWavelength.
+	pureWater bool
+	waterAtt  float64
+	events    int // simulated
 	triggered int
 	fitted    int // converged fits
 	sum       resolution.Summary
@@ -295,8 +302,8 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) ([]point, err
 		}
 		pts = append(pts, p)
 		att := "pure"
-		if su.attenuation > 0 {
-			att = fmt.Sprintf("%.0f", su.attenuation/100)
+		if su.attenuation > 0 || !p.pureWater {
+			att = fmt.Sprintf("%.0f", p.waterAtt/100)
 		}
 		misID := "-"
 		if b, ok := misIDOf(p); ok {
@@ -328,17 +335,19 @@ func est(e resolution.Estimate, scale float64) string {
 func measure(ctx context.Context, o options, su setup) (point, error) {
 	model := models[su.sensor]()
 	model.TTS *= su.ttsScale
-	det, err := geom.Layout(geom.DemoTank(), model.CathodeDiameter, su.coverage)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return point{}, err
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	det, err := geom.Layout(cfg.Detector.Tank(), model.CathodeDiameter, su.coverage)
 	if err != nil {
 		return point{}, err
 	}
-	cfg.Detector, cfg.Sensor = det, model
+	// A new layout: the description's dead-sensor indices mean nothing in it.
+	cfg.Detector, cfg.Sensor, cfg.Dead = det, model, nil
 	if su.attenuation > 0 {
-		wc := optics.DefaultWaterConfig()
+		wc := cfg.Water.Config()
+		wc.AbsorptionScale = optics.DefaultWaterConfig().AbsorptionScale
 		wc.AttenuationLength, wc.AttenuationWavelength = su.attenuation, attenuationWavelength
 		if cfg.Water, err = optics.NewWater(wc); err != nil {
 			return point{}, err
@@ -362,7 +371,9 @@ func measure(ctx context.Context, o options, su setup) (point, error) {
 	}); err != nil {
 		return point{}, err
 	}
-	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det}
+	p := point{setup: su, reached: det.Coverage(), sensors: det.NumSensors(), tts: model.TTS, events: o.n, triggered: len(evs), det: det,
+		pureWater: cfg.Water.Config() == optics.DefaultWaterConfig(),
+		waterAtt:  1 / (1/cfg.Water.AbsorptionLength(attenuationWavelength) + 1/cfg.Water.ScatteringLength(attenuationWavelength))}
 	var fits, truth []resolution.Sample
 	add := func(ev *event.Event, tr display.Track, energy float64) {
 		pr := ev.Truth.Primaries[0]
@@ -427,17 +438,17 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 	if isElectromagnetic(o.pdg()) {
 		want = ring.Electron
 	}
-	rf, err := ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner, SkipUncertainties: true})
+	rf, err := ring.New(ring.Config{Setup: cfg.Setup, SkipUncertainties: true})
 	if err != nil {
 		return err
 	}
-	if lo, hi := rf.EnergyRange(want); o.energy < lo || o.energy > hi {
+	if lo, hi := rf.EkinRange(want); o.energy < lo || o.energy > hi {
 		return fmt.Errorf("-energy = %g MeV is outside the ring fitter's %s tables (%g to %g MeV)", o.energy, want, lo, hi)
 	}
 	recs := make([]ring.Reconstruction, len(evs))
 	errs := make([]error, len(evs))
-	if err := parallel.Each(ctx, len(evs), rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(evs[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, len(evs), func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(evs[i].Hits, ring.Window{})
 	}); err != nil {
 		return err
 	}
@@ -455,7 +466,7 @@ func fitRing(ctx context.Context, o options, cfg sim.Config, evs []*event.Event,
 		if want == ring.Muon {
 			r = &recs[i].Muon
 		}
-		if r.Converged {
+		if r.Status == fit.Converged {
 			cos := math.Min(1/(n*phys.Beta(r.Track.Ekin, want.Mass())), 0.999)
 			add(evs[i], display.Track{Vertex: r.Track.Vertex, Dir: r.Track.Dir, CosCherenkov: cos, Label: "ring fit (" + want.String() + ")"}, r.Track.Ekin)
 		}

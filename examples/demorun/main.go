@@ -35,6 +35,7 @@ import (
 	"time"
 
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
@@ -50,6 +51,7 @@ type options struct {
 	quiet     bool
 	ringFit   int // events per sample for the ring fitter
 	noFigures bool
+	detector  string // -detector (detflag); empty means the demo tank
 }
 
 // usage is the program's -h text.
@@ -71,6 +73,7 @@ func main() {
 	flag.BoolVar(&o.quiet, "quiet", false, "no progress bar")
 	flag.IntVar(&o.ringFit, "ringfit", 16, "events per sample reconstructed with the single-ring fitter (0: none)")
 	flag.BoolVar(&o.noFigures, "nofigures", false, "write no figures")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage)
 	cli.Parse(usage)
 	var err error
 	o.particles = strings.Split(*particle, ",")
@@ -111,7 +114,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	if err := os.MkdirAll(o.out, 0o755); err != nil {
 		return err
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return err
 	}
@@ -119,17 +122,21 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(stdout, "demo tank: %v\n%d sensors (%s, %.1f cm), coverage %.3f, seed %d\n\n",
-		cfg.Detector.Tank(), cfg.Detector.NumSensors(), cfg.Sensor.Name, cfg.Sensor.CathodeDiameter, cfg.Detector.Coverage(), o.seed)
-	fmt.Fprintf(stdout, "%-6s %8s %6s %9s %8s %8s %7s %7s %9s  %s\n",
-		"part.", "E (MeV)", "kept", "pe/event", "pe/MeV", "hits", "scat.", "refl.", "length", "file")
-	var samples []*sample
-	for _, name := range o.particles {
-		name = strings.TrimSpace(name)
-		pdg, err := phys.ParsePDG(name)
-		if err != nil {
+	pdgs := make([]int, len(o.particles))
+	for i, name := range o.particles {
+		if pdgs[i], err = phys.ParsePDG(strings.TrimSpace(name)); err != nil {
 			return fmt.Errorf("-particle: %w", err)
 		}
+	}
+	fmt.Fprintf(stdout, "%s tank: %v\n%d sensors (%s, %.1f cm), coverage %.3f, seed %d\n\n",
+		cfg.Name, cfg.Detector.Tank(), cfg.Detector.NumSensors(), cfg.Sensor.Name, cfg.Sensor.CathodeDiameter, cfg.Detector.Coverage(), o.seed)
+	fmt.Fprintln(stdout, "kept: triggered events written to the file; pe: photoelectrons per event; hits: per event;")
+	fmt.Fprintln(stdout, "scat., refl.: photoelectrons from scattered and liner-reflected light; track: primary track length.")
+	fmt.Fprintf(stdout, "%-6s %8s %6s %9s %8s %8s %7s %7s %10s  %s\n",
+		"part.", "E (MeV)", "kept", "pe/event", "pe/MeV", "hits", "scat.", "refl.", "track (cm)", "file")
+	var samples []*sample
+	for i, name := range o.particles {
+		name, pdg := strings.TrimSpace(name), pdgs[i]
 		for _, e := range o.energies {
 			g, err := gen.NewGun(gen.GunConfig{
 				Particles: []gen.GunParticle{{PDG: pdg, Ekin: gen.FixedEnergy(e), Direction: gen.Isotropic()}},
@@ -156,7 +163,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) error {
 				return err
 			}
 			samples = append(samples, &sample{name: name, pdg: pdg, energy: e, events: evs})
-			fmt.Fprintf(stdout, "%-6s %8g %6d %9.1f %8.2f %8.1f %6.1f%% %6.1f%% %8.1f  %s\n",
+			fmt.Fprintf(stdout, "%-6s %8g %6d %9.1f %8.2f %8.1f %6.1f%% %6.1f%% %10.1f  %s\n",
 				name, e, sum.kept, sum.pe, sum.pe/e, sum.hits, 100*sum.scattered, 100*sum.reflected, sum.length, path)
 		}
 	}

@@ -12,6 +12,7 @@ import (
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/display"
 	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/fit/ring"
@@ -84,8 +85,8 @@ func TestReconstructTiny(t *testing.T) {
 func TestRingPulls(t *testing.T) {
 	// Pulls are (fit - true) / uncertainty per coordinate and for the
 	// kinetic energy, and only from fits with valid uncertainties.
-	r := ring.Result{ErrorsValid: true, Track: ring.Track{Vertex: r3.Vector{X: 10, Y: -4, Z: 3}, Ekin: 330},
-		Errors: ring.Errors{Vertex: r3.Vector{X: 5, Y: 2, Z: 1}, Ekin: 15}}
+	r := ring.Result{ErrorsValid: true, Track: fit.Track{Vertex: r3.Vector{X: 10, Y: -4, Z: 3}, Ekin: 330},
+		Errors: fit.Errors{Vertex: r3.Vector{X: 5, Y: 2, Z: 1}, Ekin: 15}}
 	tr := resolution.Sample{Vertex: r3.Vector{X: 0, Y: 0, Z: 0}, Energy: 300}
 	v, e, ok := ringPulls(&r, tr)
 	if !ok || v != [3]float64{2, -2, 3} || e != 2 {

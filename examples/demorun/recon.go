@@ -80,7 +80,7 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	_, lowEnergyMax := low.EkinRange()
 	var rf *ring.Fitter
 	if o.ringFit > 0 {
-		if rf, err = ring.New(ring.Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner}); err != nil {
+		if rf, err = ring.New(ring.Config{Setup: cfg.Setup}); err != nil {
 			return err
 		}
 	}
@@ -107,6 +107,10 @@ func reconstruct(ctx context.Context, stdout, stderr io.Writer, o options, cfg s
 	if err != nil {
 		return err
 	}
+	if len(files) == 0 {
+		fmt.Fprintln(stdout, "\nno figures: no sample was reconstructed")
+		return nil
+	}
 	fmt.Fprintf(stdout, "\nfigures: %s\n", strings.Join(files, " "))
 	return nil
 }
@@ -119,7 +123,7 @@ func hypothesisOf(pdg int) ring.Hypothesis {
 }
 
 func inRingRange(rf *ring.Fitter, sm *sample) bool {
-	lo, hi := rf.EnergyRange(hypothesisOf(sm.pdg))
+	lo, hi := rf.EkinRange(hypothesisOf(sm.pdg))
 	return sm.energy >= lo && sm.energy <= hi
 }
 
@@ -174,8 +178,8 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 	if !o.quiet {
 		fmt.Fprintf(stderr, "\r%-20s 0/%d events ", label, k)
 	}
-	if err := parallel.Each(ctx, k, rf.NewWorkspace, func(w *ring.Workspace, i int) {
-		recs[i], errs[i] = w.Fit(sm.events[i].Hits, ring.Window{})
+	if err := parallel.Each(ctx, k, func() struct{} { return struct{}{} }, func(_ struct{}, i int) {
+		recs[i], errs[i] = rf.Fit(sm.events[i].Hits, ring.Window{})
 		mu.Lock()
 		done++
 		if !o.quiet {
@@ -206,7 +210,7 @@ func fitRing(ctx context.Context, stderr io.Writer, o options, rf *ring.Fitter, 
 		if want == ring.Muon {
 			r = &rec.Muon
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			continue
 		}
 		if r.Exiting() {

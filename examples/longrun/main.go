@@ -27,6 +27,7 @@ import (
 	"time"
 
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
 	"github.com/conelight/conelight/sim/gen"
@@ -41,6 +42,7 @@ type options struct {
 	out      string
 	every    time.Duration
 	check    bool
+	detector string // -detector (detflag); empty means the demo tank
 }
 
 // usage is the program's -h text.
@@ -58,6 +60,7 @@ func main() {
 	flag.StringVar(&o.particle, "particle", "e-", "particle: e-, e+, mu-, mu+ or gamma")
 	flag.Float64Var(&o.energy, "energy", 10, "kinetic energy, MeV")
 	flag.Uint64Var(&o.seed, "seed", 1, "run seed")
+	flag.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage)
 	flag.StringVar(&o.out, "out", "longrun.root", "output event file")
 	flag.DurationVar(&o.every, "progress", 2*time.Second, "interval between progress lines")
 	flag.BoolVar(&o.check, "check", true, "read the file back at the end and count its events")
@@ -91,7 +94,7 @@ func run(ctx context.Context, stdout, stderr io.Writer, o options) (int, error) 
 	if o.n == 0 {
 		return 0, errors.New("-n must be positive")
 	}
-	cfg, err := sim.DemoConfig(o.seed)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return 0, err
 	}

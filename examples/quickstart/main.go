@@ -1,8 +1,13 @@
-// Command quickstart is the README's first program: simulate 10 MeV
-// electrons in the demo tank and reconstruct them.
+// Command quickstart is the README's first program: read a detector
+// description file, simulate five 10 MeV electrons in that tank and
+// reconstruct them with the low-energy fitter.
+//
+//	go run ./examples/quickstart
+//	go run ./examples/quickstart -detector testdata/setup/example.toml
 package main
 
 import (
+	"flag"
 	"fmt"
 	"log"
 
@@ -13,28 +18,30 @@ import (
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/setup"
 )
 
 // usage is the program's -h text.
 var usage = cli.Usage{
 	Name:    "quickstart",
-	Does:    "The README's first program: simulates five 10 MeV electrons in the demo tank and reconstructs them.",
-	Reads:   "nothing",
+	Does:    "The README's first program: reads a detector description file, simulates five 10 MeV electrons in that tank and reconstructs them.",
+	Reads:   "the detector description file -detector (TOML)",
 	Writes:  "one line per event on standard output",
-	Example: "go run ./examples/quickstart",
+	Example: "go run ./examples/quickstart -detector testdata/setup/example.toml",
 }
 
 func main() {
+	path := flag.String("detector", "sim/setup/builtin/demo.toml", "detector description file (TOML; testdata/setup/example.toml shows every key)")
 	cli.Parse(usage)
-	cfg, err := sim.DemoConfig(2026) // demo tank, 30% coverage of 20 cm sensors, pure water
+	tank, err := setup.Load(*path) // tank, sensors, layout, water, liner, trigger
 	if err != nil {
 		log.Fatal(err)
 	}
-	s, err := sim.New(cfg)
+	s, err := sim.New(sim.Config{Setup: tank, Seed: 2026})
 	if err != nil {
 		log.Fatal(err)
 	}
-	f, err := lowenergy.New(lowenergy.Config{Setup: cfg.Setup})
+	f, err := lowenergy.New(lowenergy.Config{Setup: tank})
 	if err != nil {
 		log.Fatal(err)
 	}

@@ -16,7 +16,6 @@ const runMainEnv = "CONELIGHT_QUICKSTART_MAIN"
 
 func TestMain(m *testing.M) {
 	if os.Getenv(runMainEnv) == "1" {
-		os.Args = os.Args[:1]
 		main()
 		os.Exit(0)
 	}
@@ -30,7 +29,7 @@ func TestMain(m *testing.M) {
 // the demo tank is a few tens of cm; these bounds catch a broken fit, not a
 // small change of resolution).
 func TestQuickstart(t *testing.T) {
-	cmd := exec.Command(os.Args[0])
+	cmd := exec.Command(os.Args[0], "-detector", "../../sim/setup/builtin/demo.toml")
 	cmd.Env = append(os.Environ(), runMainEnv+"=1")
 	out, err := cmd.CombinedOutput()
 	if err != nil {

@@ -23,15 +23,16 @@
 package main
 
 import (
+	"flag"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"slices"
 	"strings"
 
-	"flag"
-
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/geom/safefile"
 )
 
 var usage = cli.Usage{
@@ -42,26 +43,33 @@ var usage = cli.Usage{
 	Example: "go run ./examples/regen -steps baselines,readme",
 }
 
-// step is one stage of the regeneration: commands run in order.
+// step is one stage of the regeneration: commands run in order, then
+// copies of files they wrote (from, to).
 type step struct {
-	name string
-	cmds [][]string
+	name   string
+	cmds   [][]string
+	copies [][2]string
 }
+
+// demorunFigures is where the figures step has demorun write the ring
+// event picture that the README shows.
+const demorunFigures = "docs/.demorun-ring"
 
 // steps lists the stages in dependency order.
 var steps = []step{
 	{"tables", [][]string{
 		{"go", "generate", "./fit/lowenergy"},
 		{"go", "generate", "./fit/ring"},
-	}},
+	}, nil},
 	{"baselines", [][]string{
 		{"go", "test", "./sim/event", "-run", "TestGolden", "-update"},
 		{"go", "test", "./fit/lowenergy", "-run", "TestResolution", "-update"},
 		{"go", "test", "./fit/ring", "-run", "TestDemoRegression", "-update"},
-	}},
+	}, nil},
 	{"figures", [][]string{
 		{"go", "run", "./examples/coverage", "-out", "docs", "-formats", "png", "-quiet"},
-	}},
+		{"go", "run", "./examples/demorun", "-particle", "e-", "-energy", "800", "-n", "8", "-ringfit", "8", "-quiet", "-out", demorunFigures},
+	}, [][2]string{{demorunFigures + "/event.png", "docs/event-ring.png"}}},
 }
 
 func main() {
@@ -91,6 +99,19 @@ func main() {
 				os.Exit(1)
 			}
 		}
+		for _, c := range s.copies {
+			fmt.Println("+ copy", c[0], c[1])
+			if *dry {
+				continue
+			}
+			if err := copyFile(c[0], c[1]); err != nil {
+				fmt.Fprintf(os.Stderr, "regen: step %s: %v\n", s.name, err)
+				os.Exit(1)
+			}
+		}
+		if s.name == "figures" && !*dry {
+			os.RemoveAll(demorunFigures)
+		}
 	}
 	if slices.Contains(want, "readme") {
 		fmt.Println("+ render README blocks")
@@ -104,4 +125,13 @@ func main() {
 		}
 		fmt.Printf("README.md: %d block(s) changed\n", changed)
 	}
+}
+
+// copyFile copies from to to atomically.
+func copyFile(from, to string) error {
+	data, err := os.ReadFile(from)
+	if err != nil {
+		return err
+	}
+	return safefile.Write(to, func(w io.Writer) error { _, err := w.Write(data); return err })
 }

@@ -31,6 +31,7 @@ var blocks = map[string]renderer{
 	"tanks":          renderTanks,
 	"lowenergy-demo": renderLowEnergyDemo,
 	"ring-demo":      renderRingDemo,
+	"quickstart":     renderQuickstart,
 }
 
 // updateREADME rewrites the generated blocks of the README at path and
@@ -249,4 +250,24 @@ func renderRingDemo(root string) (string, error) {
 		fmt.Fprintf(&b, "\nPull widths (half the 16-84%% range of (fit - truth) / reported error; 1 for calibrated errors): %s.\n", strings.Join(pulls, ", "))
 	}
 	return b.String(), nil
+}
+
+// renderQuickstart quotes the main function of examples/quickstart, the
+// README's first program, so that the README shows the code that runs
+// (and is tested) and not a copy that can drift.
+func renderQuickstart(root string) (string, error) {
+	src, err := os.ReadFile(filepath.Join(root, "examples/quickstart/main.go"))
+	if err != nil {
+		return "", err
+	}
+	text := string(src)
+	i := strings.Index(text, "\nfunc main() {\n")
+	if i < 0 {
+		return "", fmt.Errorf("examples/quickstart/main.go has no func main")
+	}
+	j := strings.Index(text[i:], "\n}\n")
+	if j < 0 {
+		return "", fmt.Errorf("examples/quickstart/main.go: func main has no end")
+	}
+	return "```go\n" + text[i+1:i+j+3] + "```\n", nil
 }

@@ -244,7 +244,7 @@ func (e *EventDisplay) addHits(cfg EventConfig, sensors []geom.Sensor) error {
 		if e.Scale.Below > 0 {
 			parts = append(parts, fmt.Sprintf("%d with %s ≤ %s %s", e.Scale.Below, name, formatTick(lo, dec), unit))
 		}
-		e.main.Legend.Add(strings.Join(parts, ", ")+": drawn in the end colours of the scale", clampThumb{ramp})
+		e.main.Legend.Add(strings.Join(parts, ", ")+": drawn in the end colours of the scale", clampThumb{ramp: ramp, below: e.Scale.Below > 0, above: e.Scale.Above > 0})
 	}
 
 	e.scale.Add(&plotter.ColorBar{ColorMap: ramp, Vertical: true, Colors: 64})
@@ -312,17 +312,28 @@ func (k clampCaps) Ticks(min, max float64) []plot.Tick {
 	return ts
 }
 
-// clampThumb is the legend icon of the clamped hits: the two end colours.
-type clampThumb struct{ ramp *Ramp }
+// clampThumb is the legend icon of the clamped hits: the end colours
+// that clamp, side by side.
+type clampThumb struct {
+	ramp         *Ramp
+	below, above bool
+}
 
 func (t clampThumb) Thumbnail(c *draw.Canvas) {
-	mid := (c.Min.X + c.Max.X) / 2
-	for i, v := range []float64{t.ramp.Min(), t.ramp.Max()} {
-		x := c.Min.X + vg.Length(i)*(mid-c.Min.X)
+	var ends []float64
+	if t.below {
+		ends = append(ends, t.ramp.Min())
+	}
+	if t.above {
+		ends = append(ends, t.ramp.Max())
+	}
+	w := (c.Max.X - c.Min.X) / vg.Length(max(1, len(ends)))
+	for i, v := range ends {
+		x := c.Min.X + vg.Length(i)*w
 		var r vg.Path
 		r.Move(vg.Point{X: x, Y: c.Min.Y})
-		r.Line(vg.Point{X: x + mid - c.Min.X, Y: c.Min.Y})
-		r.Line(vg.Point{X: x + mid - c.Min.X, Y: c.Max.Y})
+		r.Line(vg.Point{X: x + w, Y: c.Min.Y})
+		r.Line(vg.Point{X: x + w, Y: c.Max.Y})
 		r.Line(vg.Point{X: x, Y: c.Max.Y})
 		r.Close()
 		c.SetColor(t.ramp.Clamped(v))

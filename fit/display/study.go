@@ -253,7 +253,7 @@ type limitThumb struct{}
 
 func (limitThumb) Thumbnail(c *draw.Canvas) {
 	x := (c.Min.X + c.Max.X) / 2
-	drawLimit(*c, x, c.Max.Y, -1, c.Max.Y-c.Min.Y, lineColour)
+	drawLimit(*c, x, c.Max.Y, -1, c.Max.Y-c.Min.Y, ringColour)
 }
 
 // addSeries adds the points of s with error bars and a joining line in the

@@ -7,13 +7,14 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
 )
 
 func TestNewBadConfig(t *testing.T) {
 	d := demoTank(t)
-	good := Config{Detector: d.cfg.Detector, Sensor: d.cfg.Sensor, Water: d.cfg.Water, Liner: d.cfg.Liner}
+	good := Config{Setup: d.cfg.Setup}
 	for _, c := range []struct {
 		name string
 		mod  func(*Config)
@@ -34,27 +35,36 @@ func TestNewBadConfig(t *testing.T) {
 }
 
 // TestBadEvents feeds the fit events it cannot use; each must give an
-// error, never a panic.
+// error, never a panic, and the status and reason in both results.
 func TestBadEvents(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit
 	n := d.fit.det.NumSensors()
 	for _, c := range []struct {
 		name string
 		hits []pmt.Hit
 		win  Window
 		want string
+		st   fit.Status
 	}{
-		{"no hits", nil, Window{}, "no hits"},
-		{"sensor out of range", []pmt.Hit{{Sensor: n, Time: 1, Charge: 1}}, Window{}, "Sensor"},
-		{"NaN time", []pmt.Hit{{Sensor: 1, Time: math.NaN(), Charge: 1}}, Window{}, "Time"},
-		{"negative charge", []pmt.Hit{{Sensor: 1, Time: 1, Charge: -1}}, Window{}, "Charge"},
-		{"Inf charge", []pmt.Hit{{Sensor: 1, Time: 1, Charge: math.Inf(1)}}, Window{}, "Charge"},
-		{"all outside window", []pmt.Hit{{Sensor: 1, Time: 5000, Charge: 1}}, Window{Lo: 0, Hi: 1000}, "window"},
-		{"reversed window", []pmt.Hit{{Sensor: 1, Time: 5, Charge: 1}}, Window{Lo: 10, Hi: 0}, "Window"},
+		{"no hits", nil, Window{}, "no hits", fit.NoHits},
+		{"sensor out of range", []pmt.Hit{{Sensor: n, Time: 1, Charge: 1}}, Window{}, "hits[0].Sensor", fit.BadInput},
+		{"NaN time", []pmt.Hit{{Sensor: 1, Time: math.NaN(), Charge: 1}}, Window{}, "hits[0].Time", fit.BadInput},
+		{"negative charge", []pmt.Hit{{Sensor: 1, Time: 1, Charge: -1}}, Window{}, "hits[0].Charge", fit.BadInput},
+		{"zero charge", []pmt.Hit{{Sensor: 2, Time: 1, Charge: 1}, {Sensor: 1, Time: 1, Charge: 0}}, Window{}, "hits[1].Charge", fit.BadInput},
+		{"Inf charge", []pmt.Hit{{Sensor: 1, Time: 1, Charge: math.Inf(1)}}, Window{}, "hits[0].Charge", fit.BadInput},
+		{"hit given twice", []pmt.Hit{{Sensor: 1, Time: 1, Charge: 1}, {Sensor: 1, Time: 1, Charge: 1}}, Window{}, "given twice", fit.BadInput},
+		{"all outside window", []pmt.Hit{{Sensor: 1, Time: 5000, Charge: 1}}, Window{Lo: 0, Hi: 1000}, "window", fit.NoHits},
+		{"reversed window", []pmt.Hit{{Sensor: 1, Time: 5, Charge: 1}}, Window{Lo: 10, Hi: 0}, "Window", fit.BadInput},
 	} {
-		if _, err := w.Fit(c.hits, c.win); err == nil || !strings.Contains(err.Error(), c.want) {
+		rec, err := w.Fit(c.hits, c.win)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: error %v, want one mentioning %q", c.name, err, c.want)
+		}
+		for _, r := range []Result{rec.Electron, rec.Muon} {
+			if r.Status != c.st || r.Reason == "" {
+				t.Errorf("%s: %v result has status %v, reason %q; want %v with a reason", c.name, r.Hypothesis, r.Status, r.Reason, c.st)
+			}
 		}
 	}
 }
@@ -63,20 +73,20 @@ func TestBadEvents(t *testing.T) {
 // energies outside the tables with errors naming the field.
 func TestBadSeeds(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit
 	ev := simulate(t, d.sim, 3, phys.MuonMinus, r3.Vector{}, r3.Vector{Z: 1}, 300)
-	good := Track{Vertex: r3.Vector{}, Dir: r3.Vector{Z: 1}, Ekin: 300}
-	lo, hi := d.fit.EnergyRange(Muon)
+	good := fit.Track{Vertex: r3.Vector{}, Dir: r3.Vector{Z: 1}, Ekin: 300}
+	lo, hi := d.fit.EkinRange(Muon)
 	for _, c := range []struct {
 		name string
-		tr   Track
+		tr   fit.Track
 		want string
 	}{
-		{"outside tank", Track{Vertex: r3.Vector{X: 900}, Dir: good.Dir, Ekin: 300}, "Vertex"},
-		{"NaN vertex", Track{Vertex: r3.Vector{X: math.NaN()}, Dir: good.Dir, Ekin: 300}, "vertex"},
-		{"zero direction", Track{Vertex: good.Vertex, Ekin: 300}, "Dir"},
-		{"energy below tables", Track{Vertex: good.Vertex, Dir: good.Dir, Ekin: lo / 2}, "Ekin"},
-		{"energy above tables", Track{Vertex: good.Vertex, Dir: good.Dir, Ekin: hi * 2}, "Ekin"},
+		{"outside tank", fit.Track{Vertex: r3.Vector{X: 900}, Dir: good.Dir, Ekin: 300}, "Vertex"},
+		{"NaN vertex", fit.Track{Vertex: r3.Vector{X: math.NaN()}, Dir: good.Dir, Ekin: 300}, "vertex"},
+		{"zero direction", fit.Track{Vertex: good.Vertex, Ekin: 300}, "Dir"},
+		{"energy below tables", fit.Track{Vertex: good.Vertex, Dir: good.Dir, Ekin: lo / 2}, "Ekin"},
+		{"energy above tables", fit.Track{Vertex: good.Vertex, Dir: good.Dir, Ekin: hi * 2}, "Ekin"},
 	} {
 		if _, err := w.FitFrom(ev.Hits, Window{}, Muon, c.tr); err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("FitFrom %s: error %v, want one naming %s", c.name, err, c.want)
@@ -106,12 +116,13 @@ func TestSaturatedAndDead(t *testing.T) {
 			dead = append(dead, hits[i].Sensor)
 		}
 	}
-	cfg := Config{Detector: d.cfg.Detector, Sensor: d.cfg.Sensor, Water: d.cfg.Water, Liner: d.cfg.Liner, Dead: dead, SkipUncertainties: true}
+	cfg := Config{Setup: d.cfg.Setup, SkipUncertainties: true}
+	cfg.Dead = dead
 	f, err := New(cfg)
 	if err != nil {
 		t.Fatal(err)
 	}
-	rec, err := f.NewWorkspace().FitFrom(hits, Window{}, Muon, Track{Vertex: r3.Vector{X: -90}, Dir: r3.Vector{X: 1, Y: 0.05}, Ekin: 400})
+	rec, err := f.FitFrom(hits, Window{}, Muon, fit.Track{Vertex: r3.Vector{X: -90}, Dir: r3.Vector{X: 1, Y: 0.05}, Ekin: 400})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -120,17 +131,17 @@ func TestSaturatedAndDead(t *testing.T) {
 			t.Fatalf("fit with saturated and dead sensors holds a non-finite value: %+v", rec)
 		}
 	}
-	if !rec.Converged && rec.Reason == "" {
+	if rec.Status != fit.Converged && rec.Reason == "" {
 		t.Error("unconverged result without a reason")
 	}
 }
 
 func TestNeutrinoEnergyErrors(t *testing.T) {
-	r := Result{Hypothesis: Muon, Track: Track{Dir: r3.Vector{X: 1}, Ekin: 400}}
+	r := Result{Hypothesis: Muon, Status: fit.NotConverged, Track: fit.Track{Dir: r3.Vector{X: 1}, Ekin: 400}}
 	if _, err := NeutrinoEnergy(&r, r3.Vector{X: 1}); err == nil {
 		t.Error("unconverged result accepted")
 	}
-	r.Converged = true
+	r.Status = fit.Converged
 	if _, err := NeutrinoEnergy(&r, r3.Vector{}); err == nil {
 		t.Error("zero beam accepted")
 	}
@@ -142,14 +153,14 @@ func TestNeutrinoEnergyErrors(t *testing.T) {
 // mass, P = (m_n - E_b, 0) (energy-momentum conservation, PDG Review,
 // Kinematics).
 func TestNeutrinoEnergyKinematics(t *testing.T) {
-	const eb = 27.0 // binding energy of gen.OxygenFermiGas (MeV)
+	const eb = phys.OxygenBindingEnergy // MeV
 	for _, c := range []struct {
 		h    Hypothesis
 		ekin float64
 		cos  float64
 	}{{Muon, 400, 0.9}, {Electron, 600, 0.5}, {Muon, 900, 0.99}} {
 		dir := r3.Vector{X: c.cos, Y: math.Sqrt(1 - c.cos*c.cos)}
-		r := Result{Hypothesis: c.h, Converged: true, Track: Track{Dir: dir, Ekin: c.ekin}}
+		r := Result{Hypothesis: c.h, Status: fit.Converged, Track: fit.Track{Dir: dir, Ekin: c.ekin}}
 		enu, err := NeutrinoEnergy(&r, r3.Vector{X: 2})
 		if err != nil {
 			t.Fatal(err)

@@ -6,6 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/phys"
@@ -22,14 +23,14 @@ func largeConfig(tb testing.TB, seed uint64) sim.Config {
 	return cfg
 }
 
-func setup(tb testing.TB, cfg sim.Config, skipErrors bool) (*sim.Simulator, *Fitter) {
+func simAndFitter(tb testing.TB, cfg sim.Config, skipErrors bool) (*sim.Simulator, *Fitter) {
 	tb.Helper()
 	s, err := sim.New(cfg)
 	if err != nil {
 		tb.Fatal(err)
 	}
 	c := s.Config()
-	f, err := New(Config{Detector: c.Detector, Sensor: c.Sensor, Water: c.Water, Liner: c.Liner, SkipUncertainties: skipErrors})
+	f, err := New(Config{Setup: c.Setup, SkipUncertainties: skipErrors})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -44,8 +45,7 @@ func setup(tb testing.TB, cfg sim.Config, skipErrors bool) (*sim.Simulator, *Fit
 func BenchmarkFit(b *testing.B) {
 	for _, tank := range benchTanks(b) {
 		for _, skip := range []bool{false, true} {
-			s, f := setup(b, tank.cfg, skip)
-			w := f.NewWorkspace()
+			s, f := simAndFitter(b, tank.cfg, skip)
 			for _, c := range []struct {
 				name string
 				pdg  int
@@ -68,7 +68,7 @@ func BenchmarkFit(b *testing.B) {
 					b.ReportAllocs()
 					evals := 0
 					for i := 0; i < b.N; i++ {
-						rec, err := w.Fit(events[i%len(events)], Window{})
+						rec, err := f.Fit(events[i%len(events)], Window{})
 						if err != nil {
 							b.Fatal(err)
 						}
@@ -85,11 +85,11 @@ func BenchmarkFit(b *testing.B) {
 // events: four tracks 2 m or more inside the sensor surface of the tank
 // of s (half its radius and height in the demo tank), pointing different
 // ways.
-func benchTracks(s *sim.Simulator) []Track {
+func benchTracks(s *sim.Simulator) []fit.Track {
 	t := s.Config().Detector.Tank()
 	r := math.Min(t.Radius-t.SensorOffset-200, 0.5*t.Radius)
 	h := math.Min(t.Height/2-t.SensorOffset-200, 0.25*t.Height)
-	return []Track{
+	return []fit.Track{
 		{Vertex: r3.Vector{X: -0.5 * r, Y: 0.25 * r}, Dir: r3.Vector{X: 0.6, Z: 0.8}},
 		{Vertex: r3.Vector{X: 0.7 * r, Z: -0.5 * h}, Dir: r3.Vector{X: -1}},
 		{Vertex: r3.Vector{Y: -0.3 * r, Z: 0.6 * h}, Dir: r3.Vector{X: 0.3, Y: 0.5, Z: -0.81}.Normalize()},
@@ -101,14 +101,14 @@ func benchTracks(s *sim.Simulator) []Track {
 // sensor plus the charge and time terms); it must not allocate.
 func BenchmarkLikelihood(b *testing.B) {
 	for _, tank := range benchTanks(b) {
-		s, f := setup(b, tank.cfg, true)
-		w := f.NewWorkspace()
-		tr := Track{Vertex: r3.Vector{X: -100, Y: 50}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: 400}
+		s, f := simAndFitter(b, tank.cfg, true)
+		w := f.newWorkspace()
+		tr := fit.Track{Vertex: r3.Vector{X: -100, Y: 50}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: 400}
 		ev, err := s.Event(1, []phys.Particle{{PDG: phys.MuonMinus, Pos: tr.Vertex, Dir: tr.Dir, Ekin: tr.Ekin}})
 		if err != nil {
 			b.Fatal(err)
 		}
-		if _, _, err := w.setEvent(ev.Hits, Window{}); err != nil {
+		if _, _, _, err := w.setEvent(ev.Hits, Window{}); err != nil {
 			b.Fatal(err)
 		}
 		for _, h := range []Hypothesis{Electron, Muon} {
@@ -135,4 +135,24 @@ func benchTanks(b *testing.B) []benchTank {
 	}
 	demo.Workers = 1
 	return []benchTank{{"demo", demo}, {"large", largeConfig(b, 1)}}
+}
+
+// BenchmarkChargeTail is the charge likelihood beyond the tables (mu or q
+// above 40 pe), the gamma log density of the library evaluated in the
+// per-sensor loop.
+func BenchmarkChargeTail(b *testing.B) {
+	m := pmt.Large()
+	ct, err := newChargeTable(&m, modelSigma)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	var s float64
+	for i := 0; i < b.N; i++ {
+		s += ct.nllHit(45+float64(i&15), 50)
+	}
+	if math.IsNaN(s) {
+		b.Fatal("NaN")
+	}
 }

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"github.com/conelight/conelight/pmt"
 )
 
@@ -93,7 +95,7 @@ func newChargeTable(m *pmt.Model, sigma float64) (*chargeTable, error) {
 			mean := float64(n-jl) + float64(jl)*lm
 			vr := float64(n-jl)*theta + float64(jl)*lm*lm
 			shape, scale := mean*mean/vr, vr/mean
-			cdfThr[n] += wb * gammaCDF(t.threshold, shape, scale)
+			cdfThr[n] += wb * distuv.Gamma{Alpha: shape, Beta: 1 / scale}.CDF(t.threshold)
 			for j := range dens[n] {
 				dens[n][j] += wb * gammaPDF(float64(j)*cqStep, shape, scale)
 			}
@@ -134,6 +136,9 @@ func newChargeTable(m *pmt.Model, sigma float64) (*chargeTable, error) {
 	return t, nil
 }
 
+// binomialPMF is the binomial probability of k successes in n trials of
+// probability p; p = 0 is handled here because the library's log form
+// evaluates 0 * log(0).
 func binomialPMF(n, k int, p float64) float64 {
 	if p == 0 {
 		if k == 0 {
@@ -141,64 +146,18 @@ func binomialPMF(n, k int, p float64) float64 {
 		}
 		return 0
 	}
-	lg := func(x int) float64 { v, _ := math.Lgamma(float64(x + 1)); return v }
-	return math.Exp(lg(n) - lg(k) - lg(n-k) + float64(k)*math.Log(p) + float64(n-k)*math.Log1p(-p))
+	return distuv.Binomial{N: float64(n), P: p}.Prob(float64(k))
 }
 
+// gammaPDF is the gamma density of the given shape and scale at x >= 0.
+// At x = 0 only the exponential (shape 1) has a finite non-zero density;
+// a shape below 1, whose density diverges there, counts as zero, as for
+// a charge bin edge that carries no probability.
 func gammaPDF(x, shape, scale float64) float64 {
-	if x <= 0 {
-		if shape == 1 && x == 0 {
-			return 1 / scale
-		}
+	if x <= 0 && shape != 1 {
 		return 0
 	}
-	lg, _ := math.Lgamma(shape)
-	return math.Exp((shape-1)*math.Log(x/scale) - x/scale - lg - math.Log(scale))
-}
-
-// gammaCDF is the regularized lower incomplete gamma P(shape, x/scale),
-// by its series (x/scale below shape+1) or continued fraction.
-func gammaCDF(x, shape, scale float64) float64 {
-	if x <= 0 {
-		return 0
-	}
-	z := x / scale
-	lg, _ := math.Lgamma(shape)
-	if z < shape+1 {
-		sum, term := 1/shape, 1/shape
-		for n := 1; n < 1000; n++ {
-			term *= z / (shape + float64(n))
-			sum += term
-			if term < sum*1e-15 {
-				break
-			}
-		}
-		return sum * math.Exp(-z+shape*math.Log(z)-lg)
-	}
-	// Lentz continued fraction for Q.
-	b := z + 1 - shape
-	c := 1 / 1e-300
-	d := 1 / b
-	h := d
-	for i := 1; i < 1000; i++ {
-		an := -float64(i) * (float64(i) - shape)
-		b += 2
-		d = an*d + b
-		if math.Abs(d) < 1e-300 {
-			d = 1e-300
-		}
-		c = b + an/c
-		if math.Abs(c) < 1e-300 {
-			c = 1e-300
-		}
-		d = 1 / d
-		del := d * c
-		h *= del
-		if math.Abs(del-1) < 1e-15 {
-			break
-		}
-	}
-	return 1 - math.Exp(-z+shape*math.Log(z)-lg)*h
+	return distuv.Gamma{Alpha: shape, Beta: 1 / scale}.Prob(x)
 }
 
 // moments returns the mean and variance of the charge for mean mu.
@@ -213,12 +172,10 @@ func (t *chargeTable) moments(mu float64) (mean, variance float64) {
 // the probability above 40 pe at a mean of 20 pe with the model width).
 func (t *chargeTable) tailHit(q, mu float64) float64 {
 	m, v := t.moments(mu)
-	shape, scale := m*m/v, v/m
 	if q <= 0 {
 		q = 1e-9
 	}
-	lg, _ := math.Lgamma(shape)
-	return -(shape-1)*math.Log(q/scale) + q/scale + lg + math.Log(scale)
+	return -distuv.Gamma{Alpha: m * m / v, Beta: m / v}.LogProb(q)
 }
 
 // gaussNone is -log of the Gaussian approximation of P(q < threshold).

@@ -11,6 +11,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/muon"
@@ -92,7 +93,7 @@ func TestDiagVertexBias(t *testing.T) {
 			t.Fatalf("CONELIGHT_RING_DIAG_P = %q must be a positive momentum", s)
 		}
 	}
-	s, f := setup(t, cfg, true)
+	s, f := simAndFitter(t, cfg, true)
 	d := newBiasDiag(f, pdg)
 	doFit := os.Getenv("CONELIGHT_RING_DIAG_FIT") == "1"
 	const minWall = 200
@@ -105,7 +106,7 @@ func TestDiagVertexBias(t *testing.T) {
 			t.Logf("event %d: no contained triggered event", k)
 			continue
 		}
-		tr := Track{Vertex: tt.pos, Dir: tt.dir, Ekin: tt.ekin}
+		tr := fit.Track{Vertex: tt.pos, Dir: tt.dir, Ekin: tt.ekin}
 		// A second event of the same track, for the simulated split of
 		// the photoelectrons by the origin of their light.
 		twin, err := s.Event(1<<40+uint64(k), []phys.Particle{{PDG: pdg, Pos: tt.pos, Dir: tt.dir, Ekin: tt.ekin}})
@@ -119,7 +120,7 @@ func TestDiagVertexBias(t *testing.T) {
 			t.Fatalf("event %d: %v", k, err)
 		}
 		if doFit {
-			rec, err := d.w.Fit(hits, Window{})
+			rec, err := d.w.fitEvent(hits, Window{})
 			if err != nil {
 				t.Logf("event %d: fit: %v", k, err)
 				continue
@@ -139,9 +140,9 @@ func TestDiagVertexBias(t *testing.T) {
 			d.fitE = append(d.fitE, r.Track.Ekin/tt.ekin-1)
 			d.fitDNLL = append(d.fitDNLL, r.NLL-nllTrue)
 			// The fit started at the truth: the minimum of the model near it.
-			rt, err := d.w.FitFrom(hits, Window{}, d.h, tr)
+			rt, err := d.w.fitFrom(hits, Window{}, d.h, tr)
 			line := fmt.Sprintf("event %3d: fit vertex %+6.1f cm along, %5.1f cm off axis, angle %4.2f deg, Ekin %+5.1f%%, converged %v, NLL(fit)-NLL(true) %+7.1f",
-				k, along, dv.Sub(tt.dir.Mul(along)).Norm(), math.Acos(math.Min(1, r.Track.Dir.Dot(tt.dir)))*180/math.Pi, 100*(r.Track.Ekin/tt.ekin-1), r.Converged, r.NLL-nllTrue)
+				k, along, dv.Sub(tt.dir.Mul(along)).Norm(), math.Acos(math.Min(1, r.Track.Dir.Dot(tt.dir)))*180/math.Pi, 100*(r.Track.Ekin/tt.ekin-1), r.Status == fit.Converged, r.NLL-nllTrue)
 			if err == nil {
 				dt := rt.Track.Vertex.Sub(tt.pos)
 				at := dt.Dot(tt.dir)
@@ -224,7 +225,7 @@ func (b *biasBins) lines() []string {
 // biasDiag is the state of TestDiagVertexBias.
 type biasDiag struct {
 	f     *Fitter
-	w     *Workspace
+	w     *workspace
 	h     Hypothesis
 	nllQ  [2][]float64 // summed charge part of the scan [fixed E, profiled E]
 	nllT  [2][]float64 // time part
@@ -250,7 +251,7 @@ type biasDiag struct {
 }
 
 func newBiasDiag(f *Fitter, pdg int) *biasDiag {
-	d := &biasDiag{f: f, w: f.NewWorkspace()}
+	d := &biasDiag{f: f, w: f.newWorkspace()}
 	if pdg == phys.MuonMinus {
 		d.h = Muon
 	}
@@ -269,14 +270,14 @@ func newBiasDiag(f *Fitter, pdg int) *biasDiag {
 
 // shifted returns tr with the vertex moved by x along the direction and
 // the time by x/c.
-func shifted(tr Track, x float64) Track {
+func shifted(tr fit.Track, x float64) fit.Track {
 	tr.Vertex = tr.Vertex.Add(tr.Dir.Mul(x))
 	tr.Time += x / phys.SpeedOfLight
 	return tr
 }
 
 // parts returns the charge and time parts of nll.
-func (d *biasDiag) parts(tr Track) (q, tm float64) {
+func (d *biasDiag) parts(tr fit.Track) (q, tm float64) {
 	all := d.w.nll(d.h, tr)
 	tm = d.w.timeShiftNLL(0)
 	return all - tm, tm
@@ -285,8 +286,8 @@ func (d *biasDiag) parts(tr Track) (q, tm float64) {
 // profiled returns the charge and time parts at the energy that
 // minimizes their sum (golden section in log energy within a factor 1.5
 // of the true one).
-func (d *biasDiag) profiled(tr Track) (q, tm float64) {
-	lo, hi := d.f.EnergyRange(d.h)
+func (d *biasDiag) profiled(tr fit.Track) (q, tm float64) {
+	lo, hi := d.f.EkinRange(d.h)
 	a, b := math.Log(math.Max(tr.Ekin/1.5, lo)), math.Log(math.Min(tr.Ekin*1.5, hi))
 	val := func(le float64) float64 {
 		x := tr
@@ -313,9 +314,9 @@ func (d *biasDiag) profiled(tr Track) (q, tm float64) {
 }
 
 // event adds one event at its true track tr.
-func (d *biasDiag) event(hits []pmt.Hit, tr Track) error {
+func (d *biasDiag) event(hits []pmt.Hit, tr fit.Track) error {
 	w, f := d.w, d.f
-	if _, _, err := w.setEvent(hits, Window{}); err != nil {
+	if _, _, _, err := w.setEvent(hits, Window{}); err != nil {
 		return err
 	}
 	w.restrict(tr.Time-promptBefore, tr.Time+f.promptAfter())
@@ -382,7 +383,7 @@ func (d *biasDiag) event(hits []pmt.Hit, tr Track) error {
 
 // sensorNLL fills q and tm with the charge and time terms of every
 // sensor for track tr on the loaded hits (0 for dead sensors).
-func (d *biasDiag) sensorNLL(tr Track, q, tm []float64) {
+func (d *biasDiag) sensorNLL(tr fit.Track, q, tm []float64) {
 	w, f := d.w, d.f
 	w.predict(d.h, tr)
 	ct := f.charge
@@ -404,7 +405,7 @@ func (d *biasDiag) sensorNLL(tr Track, q, tm []float64) {
 
 // gain adds, per bin of the true geometry, the change of the charge and
 // time terms from the true track to the fitted one.
-func (d *biasDiag) gain(truth, fit Track) {
+func (d *biasDiag) gain(truth, fit fit.Track) {
 	f := d.f
 	if d.qT == nil {
 		d.qT, d.tT = make([]float64, f.n), make([]float64, f.n)

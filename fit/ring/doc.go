@@ -34,8 +34,8 @@
 // A sensor far from the track (more than 5 light lengths from the
 // vertex) sees the angle to the track and its own weight change smoothly
 // along it: these are computed exactly at every other step edge and
-// interpolated between, which changes its direct light by less than 1%
-// (TestFarSensors) and speeds the large tank's prediction by a third.
+// interpolated between (TestFarSensors requires its direct light within
+// 1% of the exact sum).
 //
 // The predicted direct-light time of a sensor is t0 + s/c + delay(s) +
 // R(s)/v_g from the point s on the track that sees it at the Cherenkov
@@ -55,11 +55,12 @@
 // the true mean is taken as mu times a Gamma variable of mean 1 and
 // relative width sigma_model = 0.45, which makes the count negative
 // binomial with variance mu + (sigma_model mu)^2. The width is measured,
-// not tuned: the spread of simulated charges about the prediction at the
-// true track beyond the Poisson x single-pe spread, on sensors predicted
-// to see 5-40 pe with the prediction scaled to each event's total charge,
-// is 0.44 for 600 MeV/c electrons and 0.47 for muons in the demo tank
-// (TestModelSpread, which checks the constant against it). The first hit time of a sensor adds the density of
+// not tuned: it is the spread of simulated charges about the prediction
+// at the true track beyond the Poisson x single-pe spread, on sensors
+// predicted to see 5-40 pe with the prediction scaled to each event's
+// total charge (TestModelSpread measures it for electrons and muons and
+// checks the constant against both). The first hit time of a sensor adds
+// the density of
 // the time residual: the earliest of a Poisson number of Gaussian direct
 // photoelectrons (first-photon statistics, sharper with more light),
 // exponentially delayed indirect light, and flat dark noise over the
@@ -90,12 +91,10 @@
 // stored prediction. The fit stops when the expected gain of a full step
 // is below 0.05 or two steps in a row gained less than 0.05 (the noise
 // floor of the linearly interpolated tables), and gives up after 100
-// steps. Against gonum's quasi-Newton BFGS from the identity, which the
-// package used before, this needs about a third of the likelihood
-// evaluations; gonum's Newton method with the same matrix needed up to
-// twice as many and stopped early on some events, so the search is our
-// own, on gonum/mat (TestScoringReachesMinimum checks that a long gonum
-// BFGS run from the result gains less than 0.25). Uncertainties come
+// steps. A quasi-Newton method from the identity would have to learn the
+// information matrix the scores give at once, so the search is written on
+// gonum/mat (internal/minimize); TestScoringReachesMinimum checks that a
+// long gonum BFGS run from its result gains less than 0.25. Uncertainties come
 // from the numerical Hessian by second-order central formulas that also
 // reuse the stored prediction for the time (43 likelihood evaluations
 // instead of the 99 of gonum/diff/fd), and the Cramer-Rao bound from the
@@ -104,25 +103,23 @@
 // When the likelihood ratio is not decisive (below 200) the losing
 // hypothesis is refitted from the winner's track and the better of its two
 // fits kept. Uncertainties are computed for the hypothesis with the better
-// likelihood. A Result is marked Converged only inside the tank and the
-// table energy range, and then holds finite numbers only; otherwise
-// Reason says why. ErrorsValid is false when the numerical Hessian is not
-// positive definite (ErrorsNote), which leaves the fit and the particle
-// identification standing.
+// likelihood. A Result has Status fit.Converged only inside the tank and
+// the table energy range (Fitter.EkinRange), and then holds finite numbers
+// only; a minimum on the wall or at an end of the range is fit.AtLimit,
+// and Reason says why for any status but fit.Converged. ErrorsValid is
+// false when the numerical Hessian is not positive definite (Reason then
+// says so), which leaves the fit and the particle identification
+// standing.
 //
 // The Hessian uncertainties are those of the likelihood as written, which
 // treats sensors as independent given the prediction. The model width of
 // the charge term covers the per-sensor scatter of the charges, but the
 // event-by-event fluctuations of a shower or of a muon's track (its
 // multiple scattering, delta rays, energy leaving the tank) are correlated
-// across sensors, and the time term has no model width: the pull
-// distributions measured on simulated events (TestDemoRegression and
-// TestLargeTankTargets report them; half the 16-84% range) are, in the
-// large tank over 300-1000 MeV/c, 3.5 for the vertex coordinates, 5.8 for
-// the direction angles, 1.75 for the energy and 4.2 for the time, whose
-// median is +2.4 (the fitted start time is late by a fraction of a
-// nanosecond). Scale the errors by the measured pull widths when they are
-// used as resolutions.
+// across sensors, and the time term has no model width, so the pull
+// distributions of simulated events are wider than the unit normal
+// (TestDemoRegression keeps their widths in its baseline). Scale the
+// errors by the measured pull widths when they are used as resolutions.
 //
 // # Identity
 //
@@ -131,10 +128,8 @@
 // above a line in the mean fitted momentum; the zero PIDCut compares the
 // likelihoods directly. CalibratePID fits the line to simulated electrons
 // and muons of a detector (midway between the electrons' 1% and the
-// muons' 99% LLR quantiles, in momentum bins). In the large reference tank
-// from 300 to 1000 MeV/c the LLR of electrons and muons lie hundreds apart
-// at 1% and 99%; TestLargeTankTargets calibrates the cut on half its
-// events and counts the mis-identification on the other half.
+// muons' 99% LLR quantiles, in momentum bins); calibrate it on one half
+// of a sample and count the mis-identification on the other.
 //
 // # Tracks that leave the tank
 //
@@ -147,10 +142,11 @@
 // Result.MinEkin is the lower bound, the energy whose light just reaches
 // the wall (TestExiting).
 //
-// Inputs the fit cannot use (no hits, a hit with a sensor index out of
-// range or a non-finite time or charge, no hit inside the readout window,
-// a seed outside the tank or an energy outside the tables) give errors
-// naming the field and value; dead sensors are left out by Config.Dead.
+// Inputs the fit cannot use (no hits, hits that fail fit.CheckHits, no
+// hit inside the readout window, a seed outside the tank or an energy
+// outside the tables) give errors naming the field and value, with
+// Status fit.NoHits or fit.BadInput; dead sensors (Setup.Dead) are left
+// out of the likelihood.
 //
 // # Tables
 //
@@ -169,22 +165,19 @@
 // muons, each event's own early track (start to the centroid of the
 // emission points of its first third). Multiple scattering tilts a muon's
 // track one way in each event; counted about the initial direction, the
-// mean over events turns that tilt into a symmetric widening of the cone
-// that no single event has, and a fit of one event with it is biased
-// forward along the track where rings are thin next to their distance to
-// the wall (the large tank, 40 muons of 500 MeV/c: a forward shift of the
-// vertex by +16 cm on average, median +4 cm, vertex 68% 26 cm, direction
-// 68% 1.97 degrees; with the early axis +5.5 cm, median -1 cm, 25 cm and
-// 1.81 degrees; about the whole track, 24 cm but 2.6 degrees). They depend only on the
-// particle physics and the refractive index; absorption, scattering, the
-// sensors and the tank are parameters of the Fitter.
+// mean over events would turn that tilt into a symmetric widening of the
+// cone that no single event has, and a fit of one event with it would be
+// pulled forward along the track where rings are thin. The profiles
+// depend only on the particle physics and the refractive index;
+// absorption, scattering, the sensors and the tank are parameters of the
+// Fitter.
 // Between nodes the profiles are interpolated in log energy at the same
 // scaled distance.
 //
 // # Concurrency
 //
-// A Fitter is immutable after New and safe for concurrent use; give each
-// goroutine its own Workspace (NewWorkspace), which holds the per-sensor
-// predictions and the event's hits. The likelihood evaluation does not
+// A Fitter is immutable after New and safe for concurrent use by any
+// number of goroutines; per-call scratch is pooled (the per-sensor
+// predictions and the event's hits). The likelihood evaluation does not
 // allocate.
 package ring

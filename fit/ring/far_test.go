@@ -5,6 +5,8 @@ import (
 	"testing"
 
 	"github.com/golang/geo/r3"
+
+	"github.com/conelight/conelight/fit"
 )
 
 // TestFarSensors checks the interpolated geometry of far sensors (see
@@ -20,12 +22,15 @@ func TestFarSensors(t *testing.T) {
 		fit  *Fitter
 	}{{"demo", demoTank(t).fit}, {"large", largeFitter(t)}} {
 		f := tk.fit
-		exact := *f
+		exact, err := New(f.cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
 		exact.farDistance = math.Inf(1)
-		wf, we := f.NewWorkspace(), exact.NewWorkspace()
+		wf, we := f.newWorkspace(), exact.newWorkspace()
 		for _, h := range []Hypothesis{Electron, Muon} {
 			for _, e := range []float64{200, 500, 1500} {
-				tr := Track{Vertex: r3.Vector{X: -100, Y: 50, Z: 30}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: e}
+				tr := fit.Track{Vertex: r3.Vector{X: -100, Y: 50, Z: 30}, Dir: r3.Vector{X: 0.6, Z: 0.8}, Ekin: e}
 				wf.predict(h, tr)
 				we.predict(h, tr)
 				var worst, sumF, sumE float64
@@ -52,6 +57,6 @@ func TestFarSensors(t *testing.T) {
 // largeFitter is a fitter of the large reference tank.
 func largeFitter(t testing.TB) *Fitter {
 	t.Helper()
-	_, f := setup(t, largeConfig(t, 1), true)
+	_, f := simAndFitter(t, largeConfig(t, 1), true)
 	return f
 }

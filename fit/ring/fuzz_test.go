@@ -6,6 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/fuzzhits"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
@@ -16,7 +17,7 @@ import (
 // The evaluation budget is small so that each input is cheap.
 func FuzzFit(f *testing.F) {
 	d := demoTank(f)
-	fitter, err := New(Config{Detector: d.cfg.Detector, Sensor: d.cfg.Sensor, Water: d.cfg.Water, Liner: d.cfg.Liner,
+	fitter, err := New(Config{Setup: d.cfg.Setup,
 		SkipUncertainties: true, MaxEvaluations: 60})
 	if err != nil {
 		f.Fatal(err)
@@ -26,7 +27,7 @@ func FuzzFit(f *testing.F) {
 	f.Add(fuzzhits.Encode([]pmt.Hit{{Sensor: 0, Time: 1, Charge: 1}}))
 	f.Add(fuzzhits.Encode([]pmt.Hit{{Sensor: 2, Time: math.NaN(), Charge: 3}, {Sensor: -5, Time: 1, Charge: math.Inf(1)}}))
 	f.Add([]byte{})
-	ws := fitter.NewWorkspace()
+	ws := fitter
 	f.Fuzz(func(t *testing.T, b []byte) {
 		hits := fuzzhits.Decode(b)
 		if len(hits) > 3000 {
@@ -37,7 +38,7 @@ func FuzzFit(f *testing.F) {
 			return
 		}
 		for _, r := range []Result{rec.Electron, rec.Muon} {
-			if !r.Converged {
+			if r.Status != fit.Converged {
 				continue
 			}
 			tr := r.Track
@@ -47,7 +48,7 @@ func FuzzFit(f *testing.F) {
 				}
 			}
 		}
-		if math.IsNaN(rec.LLR) && (rec.Electron.Converged && rec.Muon.Converged) {
+		if math.IsNaN(rec.LLR) && (rec.Electron.Status == fit.Converged && rec.Muon.Status == fit.Converged) {
 			t.Fatalf("NaN likelihood ratio with both hypotheses converged")
 		}
 	})

@@ -39,7 +39,7 @@ func demoTank(t testing.TB) demoSetup {
 			return
 		}
 		cfg = s.Config()
-		f, err := New(Config{Detector: cfg.Detector, Sensor: cfg.Sensor, Water: cfg.Water, Liner: cfg.Liner})
+		f, err := New(Config{Setup: cfg.Setup})
 		if err != nil {
 			demoErr = err
 			return

@@ -26,7 +26,7 @@ func TestLargeTankTargets(t *testing.T) {
 	n := studyEvents(t, "CONELIGHT_RING_LARGE", "the large-tank study")
 	cfg := largeConfig(t, 11)
 	cfg.Workers = 0
-	s, f := setup(t, cfg, false)
+	s, f := simAndFitter(t, cfg, false)
 	pulls := map[string][]float64{}
 	var eID, muID []pidPoint
 	only := os.Getenv("CONELIGHT_RING_LARGE_POINTS") // e.g. "e-500,mu-500"

@@ -1,115 +1,14 @@
 package ring
 
 import (
-	"errors"
-	"fmt"
 	"math"
 
-	"github.com/golang/geo/r3"
-
-	"github.com/conelight/conelight/pmt"
+	"github.com/conelight/conelight/fit"
 )
-
-// Window is the readout window of an event (ns, event clock): hits outside
-// it are ignored, and its length sets the dark-noise level of the time
-// likelihood. The zero Window means the span of the hits.
-type Window struct {
-	Lo, Hi float64
-}
-
-// setEvent loads the hits into the workspace: the first hit of each live
-// sensor inside the window. It returns the number of hits used and the
-// number dropped (outside the window, on dead sensors or later hits of a
-// sensor already hit).
-func (w *Workspace) setEvent(hits []pmt.Hit, win Window) (used, dropped int, err error) {
-	f := w.f
-	for _, i := range w.hits {
-		w.hitQ[i] = -1
-	}
-	w.hits = w.hits[:0]
-	if len(hits) == 0 {
-		return 0, 0, errors.New("ring: event has no hits")
-	}
-	for k, h := range hits {
-		if h.Sensor < 0 || h.Sensor >= f.n {
-			return 0, 0, fmt.Errorf("ring: hit %d: Sensor = %d outside [0, %d)", k, h.Sensor, f.n)
-		}
-		if !finite(h.Time) {
-			return 0, 0, fmt.Errorf("ring: hit %d: Time = %g is not finite", k, h.Time)
-		}
-		if !finite(h.Charge) || h.Charge < 0 {
-			return 0, 0, fmt.Errorf("ring: hit %d: Charge = %g must be finite and non-negative", k, h.Charge)
-		}
-	}
-	if win == (Window{}) {
-		win.Lo, win.Hi = math.Inf(1), math.Inf(-1)
-		for _, h := range hits {
-			win.Lo, win.Hi = math.Min(win.Lo, h.Time), math.Max(win.Hi, h.Time)
-		}
-		win.Hi = math.Max(win.Hi, win.Lo+1)
-	}
-	if !finite(win.Lo) || !finite(win.Hi) || !(win.Hi > win.Lo) {
-		return 0, 0, fmt.Errorf("ring: Window {Lo: %g, Hi: %g} must be finite with Hi > Lo", win.Lo, win.Hi)
-	}
-	w.window = win.Hi - win.Lo
-	for _, h := range hits {
-		if h.Time < win.Lo || h.Time > win.Hi || f.dead[h.Sensor] {
-			dropped++
-			continue
-		}
-		i := h.Sensor
-		if w.hitQ[i] < 0 {
-			w.hits = append(w.hits, i)
-			w.hitQ[i], w.hitT[i] = h.Charge, h.Time
-			continue
-		}
-		dropped++
-		if h.Time < w.hitT[i] {
-			w.hitQ[i], w.hitT[i] = h.Charge, h.Time
-		}
-	}
-	if len(w.hits) == 0 {
-		return 0, dropped, fmt.Errorf("ring: no hit of the %d lies inside the readout window [%g, %g] ns on a live sensor", len(hits), win.Lo, win.Hi)
-	}
-	return len(w.hits), dropped, nil
-}
-
-// restrict keeps only the hits with times in [lo, hi]: light before the
-// event or long after it (a decay electron, the next interaction) is not
-// part of the ring. It returns the number removed.
-func (w *Workspace) restrict(lo, hi float64) int {
-	return w.dropHits(func(i int) bool { t := w.hitT[i]; return t < lo || t > hi })
-}
-
-// dropHits removes from the loaded event the hit sensors for which drop
-// is true (they count as unhit from then on) and returns their number.
-func (w *Workspace) dropHits(drop func(i int) bool) int {
-	kept := w.hits[:0]
-	removed := 0
-	for _, i := range w.hits {
-		if drop(i) {
-			w.hitQ[i] = -1
-			removed++
-			continue
-		}
-		kept = append(kept, i)
-	}
-	w.hits = kept
-	return removed
-}
-
-// arrival is hit sensor i's time less the light's travel time from v at
-// the spectrum-averaged group velocity: the emission time of a point
-// source at v that the hit implies.
-func (w *Workspace) arrival(i int, v r3.Vector) float64 {
-	f := w.f
-	dx, dy, dz := f.px[i]-v.X, f.py[i]-v.Y, f.pz[i]-v.Z
-	return w.hitT[i] - math.Sqrt(dx*dx+dy*dy+dz*dz)*f.resp.invGroup
-}
 
 // nll is the negative log likelihood of the loaded event for hypothesis h
 // and a valid track (unit direction, energy in the table range).
-func (w *Workspace) nll(h Hypothesis, tr Track) float64 {
+func (w *workspace) nll(h Hypothesis, tr fit.Track) float64 {
 	w.evals++
 	w.predict(h, tr)
 	return w.sensorTerms(nil)
@@ -119,7 +18,7 @@ func (w *Workspace) nll(h Hypothesis, tr Track) float64 {
 // sensors: the charge term of every sensor plus the time term of a hit
 // one. When terms is not nil it receives each sensor's share (zero for
 // dead sensors), from which the fit takes the per-sensor scores.
-func (w *Workspace) sensorTerms(terms []float64) float64 {
+func (w *workspace) sensorTerms(terms []float64) float64 {
 	f := w.f
 	ct := f.charge
 	var sum float64
@@ -147,12 +46,12 @@ func (w *Workspace) sensorTerms(terms []float64) float64 {
 
 // darkMean is the mean number of dark hits of a sensor over the readout
 // window, floored so that the time mixture keeps a noise component.
-func (w *Workspace) darkMean() float64 { return math.Max(w.f.darkRate*w.window, 1e-9) }
+func (w *workspace) darkMean() float64 { return math.Max(w.f.darkRate*w.window, 1e-9) }
 
 // timeShiftNLL is the time part of nll for the current prediction with
 // every predicted time later by shift (ns): the likelihood of a time
 // step, which leaves the charges unchanged.
-func (w *Workspace) timeShiftNLL(shift float64) float64 {
+func (w *workspace) timeShiftNLL(shift float64) float64 {
 	muN := w.darkMean()
 	var sum float64
 	for _, i := range w.hits {
@@ -173,7 +72,7 @@ func (w *Workspace) timeShiftNLL(shift float64) float64 {
 //
 // weighted by the probability that the first photoelectron of the hit is of
 // each kind.
-func (w *Workspace) timeNLL(dt, sigma, muD, muI, muN float64) float64 {
+func (w *workspace) timeNLL(dt, sigma, muD, muI, muN float64) float64 {
 	pd := -math.Expm1(-muD)
 	ps := math.Exp(-muD) * -math.Expm1(-muI)
 	pn := math.Exp(-muD-muI) * -math.Expm1(-muN)

@@ -139,7 +139,7 @@ func poisson(rng *rand.Rand, mu float64) int {
 // standard errors.
 func TestTimeDensity(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	w.window = 1000
 	sigma := 2.0
 	for _, mu := range []float64{0.2, 3, 30} {

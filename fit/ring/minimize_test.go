@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim/phys"
 )
@@ -53,13 +54,13 @@ func TestScoringReachesMinimum(t *testing.T) {
 		t.Skip("minimizer comparison skipped in -short mode")
 	}
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	for k, ev := range fitEvents(t) {
 		e, err := d.sim.Event(uint64(900+k), ev.hits)
 		if err != nil {
 			t.Fatal(err)
 		}
-		rec, err := w.Fit(e.Hits, Window{})
+		rec, err := w.fitEvent(e.Hits, Window{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -67,11 +68,11 @@ func TestScoringReachesMinimum(t *testing.T) {
 		if ev.h == Muon {
 			r = rec.Muon
 		}
-		if !r.Converged {
+		if r.Status != fit.Converged {
 			t.Errorf("event %d (%v): fit did not converge: %s", k, ev.h, r.Reason)
 			continue
 		}
-		lo, hi := d.fit.EnergyRange(ev.h)
+		lo, hi := d.fit.EkinRange(ev.h)
 		fr := newFrame(r.Track, lo, hi)
 		obj := func(x []float64) float64 { return w.objective(ev.h, &fr, x) }
 		grad := func(g, x []float64) { fd.Gradient(g, obj, x, &fd.Settings{Formula: fd.Central, Step: 0.02}) }
@@ -105,17 +106,17 @@ func TestScoringReachesMinimum(t *testing.T) {
 // step, whose diagonal stencil f(x +- 2 h') is the same set of points.
 func TestCurvature(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	ev := fitEvents(t)[2] // a muon
 	e, err := d.sim.Event(950, ev.hits)
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := w.FitFrom(e.Hits, Window{}, Muon, Track{Vertex: ev.hits[0].Pos, Dir: ev.hits[0].Dir, Ekin: ev.hits[0].Ekin})
-	if err != nil || !res.Converged {
+	res, err := w.fitFrom(e.Hits, Window{}, Muon, fit.Track{Vertex: ev.hits[0].Pos, Dir: ev.hits[0].Dir, Ekin: ev.hits[0].Ekin})
+	if err != nil || res.Status != fit.Converged {
 		t.Fatalf("fit: %v %s", err, res.Reason)
 	}
-	lo, hi := d.fit.EnergyRange(Muon)
+	lo, hi := d.fit.EkinRange(Muon)
 	fr := newFrame(res.Track, lo, hi)
 	const step = 0.25
 	c := w.curvatureAt(Muon, &fr, step)
@@ -167,7 +168,7 @@ func TestCurvature(t *testing.T) {
 // light ends 150 cm on.
 func TestExiting(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	ekin := phys.KineticFromMomentum(800, phys.MuonMass)
 	u := r3.Vector{X: 1}
 	for _, c := range []struct {
@@ -185,8 +186,8 @@ func TestExiting(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		res, err := w.FitFrom(ev.Hits, Window{}, Muon, Track{Vertex: pos, Dir: u, Ekin: ekin})
-		if err != nil || !res.Converged {
+		res, err := w.fitFrom(ev.Hits, Window{}, Muon, fit.Track{Vertex: pos, Dir: u, Ekin: ekin})
+		if err != nil || res.Status != fit.Converged {
 			t.Fatalf("wall %g: fit %v %s", c.wall, err, res.Reason)
 		}
 		t.Logf("wall %g cm: outside %.2f, fitted %.0f MeV, lower bound %.0f MeV, true %.0f MeV", c.wall, res.Outside, res.Track.Ekin, res.MinEkin, ekin)
@@ -205,7 +206,7 @@ func TestExiting(t *testing.T) {
 // fit its energy.
 func TestLaterBurst(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	mu := phys.Particle{PDG: phys.MuonMinus, Pos: r3.Vector{X: 100, Y: 50, Z: -150}, Dir: r3.Vector{X: -0.3, Y: 0.2, Z: 0.93}.Normalize(),
 		Ekin: phys.KineticFromMomentum(300, phys.MuonMass)}
 	evMu, err := d.sim.Event(980, []phys.Particle{mu})
@@ -226,7 +227,7 @@ func TestLaterBurst(t *testing.T) {
 		hits = append(hits, h)
 		qE += h.Charge
 	}
-	rec, err := w.Fit(hits, Window{})
+	rec, err := w.fitEvent(hits, Window{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -236,7 +237,7 @@ func TestLaterBurst(t *testing.T) {
 	}
 	// 68% momentum resolution at 300 MeV/c in the demo tank is 3-7%
 	// (testdata/ring/demo_baseline.txt); 5 times that bounds a good fit.
-	if !rec.Muon.Converged || math.Abs(rec.Muon.Track.Ekin/mu.Ekin-1) > 0.3 {
+	if rec.Muon.Status != fit.Converged || math.Abs(rec.Muon.Track.Ekin/mu.Ekin-1) > 0.3 {
 		t.Errorf("muon fit %+v", rec.Muon)
 	}
 }

@@ -6,6 +6,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -22,7 +23,7 @@ const lightModelAccuracy = 0.05
 // accuracy plus 4 standard errors of the simulated mean.
 func TestPredictedTotal(t *testing.T) {
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit
 	mu := make([]float64, d.fit.n)
 	for _, c := range []struct {
 		ekin     float64
@@ -33,7 +34,7 @@ func TestPredictedTotal(t *testing.T) {
 		{1200, r3.Vector{Z: -200}, r3.Vector{X: 0.3, Y: 0.3, Z: 0.9}},
 	} {
 		c.dir = c.dir.Normalize()
-		if err := w.Predict(Electron, Track{Vertex: c.pos, Dir: c.dir, Ekin: c.ekin}, mu, nil); err != nil {
+		if err := w.Predict(Electron, fit.Track{Vertex: c.pos, Dir: c.dir, Ekin: c.ekin}, mu, nil); err != nil {
 			t.Fatal(err)
 		}
 		var pred float64

@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -29,7 +30,7 @@ func TestModelSpread(t *testing.T) {
 		t.Skip("model-spread measurement skipped in -short mode")
 	}
 	d := demoTank(t)
-	w := d.fit.NewWorkspace()
+	w := d.fit.newWorkspace()
 	ct := d.fit.charge
 	mu := make([]float64, d.fit.n)
 	for _, pt := range []point{{"e-600", phys.Electron, 600}, {"mu-600", phys.MuonMinus, 600}} {
@@ -45,10 +46,10 @@ func TestModelSpread(t *testing.T) {
 			if hits == nil {
 				continue
 			}
-			if _, _, err := w.setEvent(hits, Window{}); err != nil {
+			if _, _, _, err := w.setEvent(hits, Window{}); err != nil {
 				t.Fatal(err)
 			}
-			if err := w.Predict(h, Track{Vertex: tt.pos, Dir: tt.dir, Ekin: tt.ekin}, mu, nil); err != nil {
+			if err := d.fit.Predict(h, fit.Track{Vertex: tt.pos, Dir: tt.dir, Ekin: tt.ekin}, mu, nil); err != nil {
 				t.Fatal(err)
 			}
 			var sq, sm float64

@@ -5,6 +5,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -16,7 +17,7 @@ import (
 // need not be normalized. An unconverged result, a zero beam or an
 // unphysical combination gives an error.
 func NeutrinoEnergy(r *Result, beam r3.Vector) (float64, error) {
-	if !r.Converged {
+	if r.Status != fit.Converged {
 		return 0, fmt.Errorf("ring: NeutrinoEnergy: the %v fit did not converge (%s)", r.Hypothesis, r.Reason)
 	}
 	n := beam.Norm()

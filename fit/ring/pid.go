@@ -7,7 +7,45 @@ import (
 	"sort"
 
 	"gonum.org/v1/gonum/stat"
+
+	"github.com/conelight/conelight/fit"
+	"github.com/conelight/conelight/sim/phys"
 )
+
+// PIDCut separates e-like from mu-like events by the log-likelihood ratio
+// as a function of the fitted momentum: an event is e-like when LLR >
+// Offset + Slope*p, p the mean of the two fitted momenta in GeV/c.
+// The zero PIDCut compares the likelihoods directly.
+type PIDCut struct {
+	Offset, Slope float64
+}
+
+// PDG returns 11 for an e-like event, 13 for a mu-like one and 0 when
+// neither fit converged. When only one converged it is chosen.
+func (c PIDCut) PDG(r *Reconstruction) int {
+	switch {
+	case r.Electron.Status != fit.Converged && r.Muon.Status != fit.Converged:
+		return 0
+	case r.Muon.Status != fit.Converged:
+		return phys.Electron
+	case r.Electron.Status != fit.Converged:
+		return phys.MuonMinus
+	}
+	p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum) / 1000
+	if r.LLR > c.Offset+c.Slope*p {
+		return phys.Electron
+	}
+	return phys.MuonMinus
+}
+
+// Best returns the result of the hypothesis c picks (the electron when
+// neither converged).
+func (c PIDCut) Best(r *Reconstruction) *Result {
+	if c.PDG(r) == phys.MuonMinus {
+		return &r.Muon
+	}
+	return &r.Electron
+}
 
 // CalibratePID returns the PIDCut line that separates samples of known
 // electrons and muons, fitted by both hypotheses: in momentum bins of
@@ -27,7 +65,7 @@ func CalibratePID(electrons, muons []Reconstruction, binWidth float64) (PIDCut, 
 	type bin struct{ e, mu []float64 }
 	bins := map[int]*bin{}
 	add := func(r *Reconstruction, electron bool) {
-		if !r.Electron.Converged || !r.Muon.Converged || !finite(r.LLR) {
+		if r.Electron.Status != fit.Converged || r.Muon.Status != fit.Converged || !finite(r.LLR) {
 			return
 		}
 		p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum)

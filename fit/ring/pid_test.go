@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -22,8 +23,8 @@ func TestCalibratePID(t *testing.T) {
 		e := Reconstruction{LLR: 300 + 200*p + 20*rng.NormFloat64()}
 		m := Reconstruction{LLR: -100 - 300*p + 20*rng.NormFloat64()}
 		for _, r := range []*Reconstruction{&e, &m} {
-			r.Electron = Result{Converged: true, Momentum: 1000 * p}
-			r.Muon = Result{Converged: true, Momentum: 1000 * p}
+			r.Electron = Result{Status: fit.Converged, Momentum: 1000 * p}
+			r.Muon = Result{Status: fit.Converged, Momentum: 1000 * p}
 		}
 		es, mus = append(es, e), append(mus, m)
 	}

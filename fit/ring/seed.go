@@ -6,6 +6,7 @@ import (
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/optimize"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -15,7 +16,7 @@ const gridHits = 300
 
 // spreadHits returns at most n of the loaded event's hit sensors, evenly
 // spread over the list (all of them when there are no more than n).
-func (w *Workspace) spreadHits(n int) []int {
+func (w *workspace) spreadHits(n int) []int {
 	if len(w.hits) <= n {
 		return w.hits
 	}
@@ -37,7 +38,7 @@ const goodChargeCap = 3
 // is maximized first on a grid over the tank and then by Nelder-Mead.
 // The point found lies along the track, near where most of the light comes
 // from; the track fits move it back to the start.
-func (w *Workspace) pointSeed() (r3.Vector, float64) {
+func (w *workspace) pointSeed() (r3.Vector, float64) {
 	f := w.f
 	sigma := math.Hypot(f.tts, 1.5)
 	good := func(hits []int, v r3.Vector, t0 float64) float64 {
@@ -137,7 +138,7 @@ func (w *Workspace) pointSeed() (r3.Vector, float64) {
 // which the charge of the hits is most concentrated at the Cherenkov
 // angle, searched over a spiral of directions covering the sphere and
 // refined around the best one.
-func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
+func (w *workspace) directionSeed(v r3.Vector) r3.Vector {
 	score := w.ringScore(v, w.hits)
 	// The spiral needs only a rough axis: it scores at most gridHits of
 	// the hits, evenly spread; the refinement scores them all.
@@ -177,13 +178,13 @@ func (w *Workspace) directionSeed(v r3.Vector) r3.Vector {
 }
 
 // refineDirection re-aims the ring axis from a new vertex v, starting at u.
-func (w *Workspace) refineDirection(v, u r3.Vector) r3.Vector {
+func (w *workspace) refineDirection(v, u r3.Vector) r3.Vector {
 	score := w.ringScore(v, w.hits)
 	return w.refine(u, score)
 }
 
 // refine searches rings of shrinking opening about the best direction.
-func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float64) r3.Vector {
+func (w *workspace) refine(best r3.Vector, score func(r3.Vector, float64) float64) r3.Vector {
 	bs := score(best, 0.03)
 	for _, ang := range []float64{0.06, 0.03, 0.015, 0.007, 0.003} {
 		c := best
@@ -200,7 +201,7 @@ func (w *Workspace) refine(best r3.Vector, score func(r3.Vector, float64) float6
 // ringScore returns the score of a ring axis seen from v: the hit charge
 // (capped at 10 pe) within a Gaussian band of the given width in cosine
 // about the Cherenkov angle.
-func (w *Workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) float64 {
+func (w *workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) float64 {
 	f := w.f
 	cosC := 1 / f.resp.index
 	type hv struct {
@@ -220,4 +221,61 @@ func (w *Workspace) ringScore(v r3.Vector, hits []int) func(r3.Vector, float64) 
 		}
 		return s
 	}
+}
+
+// trackSeed turns the point seed into a track seed for hypothesis h:
+// the energy that matches the total charge and the start point moved back
+// along the direction to the best of a few candidates.
+func (w *workspace) trackSeed(h Hypothesis, v r3.Vector, t0 float64, u r3.Vector) fit.Track {
+	f := w.f
+	var q float64
+	for _, i := range w.hits {
+		q += w.hitQ[i]
+	}
+	q /= f.charge.m1
+	lo, hi := f.EkinRange(h)
+	best := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: math.Sqrt(lo * hi)}
+	bestNLL := math.Inf(1)
+	// The point fit lands where most light comes from: near the shower
+	// maximum of an electron, mid-track for a muon. Try start points
+	// behind it, re-aiming the ring at each; the energy that matches the
+	// charge hardly depends on the start, so after the first candidate
+	// one update from the last energy suffices.
+	iters := 3
+	for _, back := range []float64{0, 0.33, 0.67, 1.0} {
+		tr := fit.Track{Vertex: v, Time: t0, Dir: u, Ekin: best.Ekin}
+		for it := 0; it < iters; it++ {
+			sh := back * w.lightLength(h, tr.Ekin)
+			tr.Vertex = v.Sub(u.Mul(sh))
+			if f.det.DistanceToWall(tr.Vertex) < 1 {
+				tr.Vertex = v
+				sh = 0
+			}
+			tr.Time = t0 - sh/phys.SpeedOfLight
+			if it == 0 {
+				tr.Dir = w.refineDirection(tr.Vertex, u)
+			}
+			w.predict(h, tr)
+			var p float64
+			for i := range w.muD {
+				if !f.dead[i] {
+					p += w.muD[i] + w.muI[i]
+				}
+			}
+			if !(p > 0) {
+				break
+			}
+			tr.Ekin = min(max(tr.Ekin*q/p, lo), hi)
+		}
+		iters = 1
+		if n := w.nll(h, tr); n < bestNLL {
+			best, bestNLL = tr, n
+		}
+	}
+	return best
+}
+
+func (w *workspace) lightLength(h Hypothesis, e float64) float64 {
+	w.f.species(h).interpolate(e, &w.prof)
+	return w.prof.light90
 }

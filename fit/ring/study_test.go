@@ -11,6 +11,7 @@ import (
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/gen"
@@ -78,7 +79,7 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := f.NewWorkspace()
+			w := f
 			for k := range jobs {
 				rng := rand.New(rand.NewPCG(seed, uint64(k)))
 				var tt trueTrack
@@ -102,14 +103,14 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 				if (PIDCut{}).PDG(&rec) != pt.pdg {
 					out.misID++
 				}
-				if rec.Electron.Converged && rec.Muon.Converged {
+				if rec.Electron.Status == fit.Converged && rec.Muon.Status == fit.Converged {
 					out.pid = append(out.pid, pidPoint{k, rec})
 				}
 				r := rec.Electron
 				if hyp == Muon {
 					r = rec.Muon
 				}
-				if !r.Converged {
+				if r.Status != fit.Converged {
 					reason := r.Reason
 					if len(reason) > 40 {
 						reason = reason[:40]
@@ -133,7 +134,7 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 				}
 				if r.ErrorsValid && r.CramerRao.Ekin > 0 {
 					out.crbVertex = append(out.crbVertex, r.CramerRao.Vertex.Norm())
-					out.crbAngle = append(out.crbAngle, r.CramerRao.Direction*180/math.Pi)
+					out.crbAngle = append(out.crbAngle, math.Hypot(r.CramerRao.Angle[0], r.CramerRao.Angle[1])*180/math.Pi)
 					out.crbMomentum = append(out.crbMomentum, r.CramerRao.Momentum/r.Momentum)
 				}
 				if r.ErrorsValid {
@@ -144,7 +145,7 @@ func study(t testing.TB, s *sim.Simulator, f *Fitter, pt point, n int, minWall f
 					out.pulls["z"] = append(out.pulls["z"], d.Z/r.Errors.Vertex.Z)
 					out.pulls["t"] = append(out.pulls["t"], r.Track.Time/r.Errors.Time)
 					e1, e2 := phys.Basis(r.Track.Dir)
-					out.pulls["angle"] = append(out.pulls["angle"], -tt.dir.Dot(e1)/math.Sqrt(r.Cov[4][4]), -tt.dir.Dot(e2)/math.Sqrt(r.Cov[5][5]))
+					out.pulls["angle"] = append(out.pulls["angle"], -tt.dir.Dot(e1)/r.Errors.Angle[0], -tt.dir.Dot(e2)/r.Errors.Angle[1])
 					out.pulls["energy"] = append(out.pulls["energy"], (r.Track.Ekin-tt.ekin)/r.Errors.Ekin)
 				}
 				mu.Unlock()

@@ -99,7 +99,7 @@ func decodeTables(b []byte) (*tableSet, error) {
 	return ts, nil
 }
 
-// EnergyRange returns the kinetic energy range (MeV) covered by the tables
+// EkinRange returns the kinetic energy range (MeV) covered by the tables
 // of a hypothesis.
 func (t *speciesTable) energyRange() (lo, hi float64) {
 	return t.energies[0], t.energies[len(t.energies)-1]

@@ -8,6 +8,7 @@ import (
 
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
 // everywhere is an unbounded volume.
@@ -16,9 +17,7 @@ type everywhere struct{}
 func (everywhere) Contains(r3.Vector) bool { return true }
 
 // ball is a sphere of radius r about the origin.
-type ball struct{ r float64 }
-
-func (b ball) Contains(p r3.Vector) bool { return p.Norm2() < b.r*b.r }
+type ball = phystest.Ball // the test volume of phystest
 
 // tally is a test sink: it sums what a shower reports and, when the
 // profile fields are set, histograms the Cherenkov-weighted track length

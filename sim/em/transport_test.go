@@ -58,7 +58,7 @@ func TestValidation(t *testing.T) {
 		{"direction", mod(func(q *phys.Particle) { q.Dir = r3.Vector{X: 1, Z: 1} }), everywhere{}, "Dir"},
 		{"position", mod(func(q *phys.Particle) { q.Pos.X = math.Inf(1) }), everywhere{}, "Pos"},
 		{"time", mod(func(q *phys.Particle) { q.Time = math.NaN() }), everywhere{}, "Time"},
-		{"outside", mod(func(q *phys.Particle) { q.Pos.X = 10 }), ball{5}, "outside"},
+		{"outside", mod(func(q *phys.Particle) { q.Pos.X = 10 }), ball{R: 5}, "outside"},
 		{"nil volume", good, nil, "Volume"},
 	}
 	for _, c := range cases {
@@ -225,7 +225,7 @@ func TestLeavesVolume(t *testing.T) {
 	p := newPhysics(t, DefaultConfig())
 	rng := rand.New(rand.NewPCG(6, 7))
 	b := &boundSink{}
-	if err := p.Shower(primary(phys.Electron, 1000), ball{10}, rng, b); err != nil {
+	if err := p.Shower(primary(phys.Electron, 1000), ball{R: 10}, rng, b); err != nil {
 		t.Fatal(err)
 	}
 	if b.rmax > 10 {

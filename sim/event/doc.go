@@ -107,7 +107,7 @@
 //	nu_q2                  float64       MeV^2   four-momentum transfer squared
 //	nu_target              int32                 target PDG code (nucleus 100ZZZAAAI or 2212)
 //	process                int32                 process ID, NuHepMC numbering (0: unknown)
-//	weight                 float64               event weight (1: unweighted)
+//	weight                 float64               event weight (1: unweighted, 0: no interaction)
 //	source_event           int64                 event number in the generator's file
 //	from_file              bool                  the event came from a generator file
 //	nucleon_pdg ... nucleon_track                outgoing nucleon, the 11 fields of a

@@ -84,3 +84,65 @@ func Example() {
 	//   track PDG 13: 452 cm, stopped-decayed
 	// event 1: 0 primaries, 0 hits, 0 pe, triggered false
 }
+
+// A run of 30 events in three shards, of which one was interrupted after
+// 4 events and one never ran: Merge refuses the set, MergeWith with
+// Partial merges it and records what is missing.
+func ExampleMergeWith() {
+	dir, err := os.MkdirTemp("", "event-example")
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer os.RemoveAll(dir)
+	sensor := pmt.Large()
+	det, err := geom.Layout(geom.DemoTank(), sensor.CathodeDiameter, 0.2)
+	if err != nil {
+		log.Fatal(err)
+	}
+	write := func(name string, shard int, done uint64) string {
+		path := filepath.Join(dir, name)
+		run := event.RunInfo{
+			Seed: 1, Generator: "nothing", Version: "example",
+			ShardIndex: shard, ShardCount: 3, FirstEvent: uint64(10 * shard), Events: 10,
+			Run: event.Span{First: 0, N: 30},
+		}
+		w, err := event.Create(path, det, sensor, run)
+		if err != nil {
+			log.Fatal(err)
+		}
+		defer w.Abort()
+		for n := run.FirstEvent; n < run.FirstEvent+done; n++ {
+			if err := w.Write(&event.Event{Number: n}); err != nil {
+				log.Fatal(err)
+			}
+		}
+		if done < run.Events {
+			if err := w.Interrupt(done); err != nil { // e.g. at a batch time limit
+				log.Fatal(err)
+			}
+		}
+		if err := w.Close(); err != nil {
+			log.Fatal(err)
+		}
+		return path
+	}
+	a := write("part-0.root", 0, 10)
+	b := write("part-1.root", 1, 4)
+	out := filepath.Join(dir, "all.root")
+
+	err = event.Merge(out, a, b)
+	fmt.Println(err != nil)
+	if err := event.MergeWith(out, event.MergeOptions{Partial: true}, a, b); err != nil {
+		log.Fatal(err)
+	}
+	r, err := event.Open(out)
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer r.Close()
+	run := r.Run()
+	fmt.Printf("%d events stored, complete %v, interrupted %v, missing %v\n", r.Len(), run.Complete(), run.Interrupted, run.Missing)
+	// Output:
+	// true
+	// 14 events stored, complete false, interrupted true, missing [events 14 to 29]
+}

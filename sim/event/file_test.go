@@ -233,7 +233,7 @@ func TestWriteRejectsBadEvents(t *testing.T) {
 		{"Hits[0].Charge = +Inf", func(e *Event) { e.Hits = []pmt.Hit{{Charge: inf()}} }},
 		{"Number = 99 outside the run's range [100, 109]", func(e *Event) { e.Number = 99 }},
 		{"Number = 110 outside", func(e *Event) { e.Number = 110 }},
-		{"Truth.Tracks[0].Fate = 7 is not a known fate", func(e *Event) { e.Truth.Tracks = []Track{{Fate: 7}} }},
+		{"Truth.Tracks[0].Fate = 99 is not a known fate", func(e *Event) { e.Truth.Tracks = []Track{{Fate: 99}} }},
 		{"Truth.Tracks[0].Secondaries = -2", func(e *Event) { e.Truth.Tracks = []Track{{Secondaries: -2}} }},
 		{"Truth.Primaries[0].Dir.Y = NaN", func(e *Event) { e.Truth.Primaries = []phys.Particle{{Dir: vec(0, nan(), 0)}} }},
 		{"Truth.Primaries[0].PDG = 4294967296 does not fit", func(e *Event) { e.Truth.Primaries = []phys.Particle{{PDG: 1 << 32}} }},
@@ -262,11 +262,27 @@ func TestWriteRejectsBadEvents(t *testing.T) {
 	if err := w.Write(&e); err != nil {
 		t.Fatalf("good event after rejected ones: %v", err)
 	}
+	if err := w.Write(&e); err == nil || !strings.Contains(err.Error(), "event Number = 100 after event 100") {
+		t.Errorf("the same event twice: error %v", err)
+	}
 	if err := w.Close(); err != nil {
 		t.Fatal(err)
 	}
 	if _, got := readAll(t, path); len(got) != 1 || !reflect.DeepEqual(got[0], e) {
 		t.Errorf("file holds %d events, want only the good one", len(got))
+	}
+
+	// A run with missing events takes none of them.
+	run := testRun(100, 10)
+	run.Interrupted, run.Missing = true, []Span{{First: 105, N: 5}}
+	w, err = Create(tempPath(t, "m.root"), s.det, s.model, run)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Abort()
+	e.Number = 107
+	if err := w.Write(&e); err == nil || !strings.Contains(err.Error(), "event Number = 107 lies in the run's missing events 105 to 109") {
+		t.Errorf("an event in a missing span: error %v", err)
 	}
 }
 
@@ -341,5 +357,37 @@ func TestOpenNotAnEventFile(t *testing.T) {
 	}
 	if _, err := Open(p); err == nil || !strings.Contains(err.Error(), "other.root") || !strings.Contains(err.Error(), "not a conelight event file") {
 		t.Errorf("Open of a foreign ROOT file: error %v", err)
+	}
+}
+
+// TestRunInfoValidateRecord: the run range, missing spans and source
+// accounting are checked, each error naming the field.
+func TestRunInfoValidateRecord(t *testing.T) {
+	for _, tc := range []struct {
+		edit func(*RunInfo)
+		want string
+	}{
+		{func(r *RunInfo) { r.Run = Span{First: 12, N: 100} }, "RunInfo.Run = events 12 to 111 does not contain"},
+		{func(r *RunInfo) { r.Run = Span{First: 0, N: 15} }, "RunInfo.Run = events 0 to 14 does not contain"},
+		{func(r *RunInfo) { r.Missing = []Span{{First: 15, N: 0}} }, "RunInfo.Missing[0] = no events at 15"},
+		{func(r *RunInfo) { r.Missing = []Span{{First: 18, N: 5}} }, "RunInfo.Missing[0] = events 18 to 22"},
+		{func(r *RunInfo) { r.Missing = []Span{{First: 12, N: 2}, {First: 11, N: 1}} }, "RunInfo.Missing[1] = events 11 to 11"},
+		{func(r *RunInfo) { r.Missing = []Span{{First: 12, N: 2}, {First: 13, N: 1}} }, "RunInfo.Missing[1]"},
+		{func(r *RunInfo) { r.Source = SourceStats{Read: 2, Skipped: 3} }, "Source.Skipped = 3 exceeds Source.Read = 2"},
+		{func(r *RunInfo) { r.Source = SourceStats{Read: 2, Skipped: 1} }, "Source.Reasons has 0 lines for Skipped = 1"},
+		{func(r *RunInfo) { r.Source = SourceStats{Read: 2, Skipped: 1, Reasons: []string{"a\nb"}} }, `Source.Reasons[0] = "a\nb" must be one line`},
+	} {
+		r := testRun(10, 10)
+		tc.edit(&r)
+		if err := r.Validate(); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%+v: error %v, want one containing %q", r, err, tc.want)
+		}
+	}
+	r := testRun(10, 10)
+	r.Run = Span{First: 0, N: 20}
+	r.Missing = []Span{{First: 12, N: 2}, {First: 14, N: 6}}
+	r.Source = SourceStats{Read: 3, Skipped: 1, Reasons: []string{"event 7: nothing to track"}}
+	if err := r.Validate(); err != nil {
+		t.Errorf("good record: %v", err)
 	}
 }

@@ -106,8 +106,8 @@ func newReader(path string, src riofs.Reader, size int64) (_ *Reader, err error)
 		return nil, err
 	}
 	n := r.events.Entries()
-	if n < 0 || uint64(n) > r.run.Events {
-		return nil, r.errorf("tree %q has %d entries for a run of %d events", eventsTree, n, r.run.Events)
+	if n < 0 || uint64(n) > r.run.Events-r.run.missingCount() {
+		return nil, r.errorf("tree %q has %d entries for a run of %d events, %d of them missing", eventsTree, n, r.run.Events, r.run.missingCount())
 	}
 	r.n = int(n)
 	return r, nil
@@ -318,6 +318,9 @@ func (r *Reader) decode(rec *eventRecord, cols []column, crc uint32, buf *[]byte
 	}
 	if !r.run.contains(e.Number) {
 		return Event{}, fmt.Errorf("event number %d outside the run's range [%d, %d]", e.Number, r.run.FirstEvent, r.run.lastEvent())
+	}
+	if m, ok := r.run.missing(e.Number); ok {
+		return Event{}, fmt.Errorf("event number %d lies in the run's missing %v", e.Number, m)
 	}
 	return e, nil
 }

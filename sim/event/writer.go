@@ -146,8 +146,10 @@ func writeSingle(f *riofs.File, name string, cols []column) error {
 }
 
 // Write appends e to the file. e must pass Validate for the detector's
-// sensor count and its Number must lie in the run's event range; an event
-// that does not is rejected with an error and the Writer stays usable.
+// sensor count, its Number must lie in the run's event range, outside
+// the run's missing spans, and exceed the Number of the event written
+// before (so that no event is stored twice); an event that does not is
+// rejected with an error and the Writer stays usable.
 // A failure of the file itself leaves the Writer unusable: Close then
 // reports the error and removes the temporary file.
 func (w *Writer) Write(e *Event) (err error) {
@@ -163,6 +165,9 @@ func (w *Writer) Write(e *Event) (err error) {
 	if !w.run.contains(e.Number) {
 		return fmt.Errorf("event: event Number = %d outside the run's range [%d, %d] in %s",
 			e.Number, w.run.FirstEvent, w.run.lastEvent(), w.path)
+	}
+	if w.n > 0 && e.Number <= w.last {
+		return fmt.Errorf("event: event Number = %d after event %d in %s: numbers must increase", e.Number, w.last, w.path)
 	}
 	if m, ok := w.run.missing(e.Number); ok {
 		return fmt.Errorf("event: event Number = %d lies in the run's missing %v in %s", e.Number, m, w.path)
@@ -181,7 +186,7 @@ func (w *Writer) Write(e *Event) (err error) {
 	_, err = w.tree.Write()
 	if err == nil {
 		w.n++
-		w.last = max(w.last, e.Number)
+		w.last = e.Number
 	}
 	return err
 }

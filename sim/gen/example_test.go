@@ -70,3 +70,32 @@ func ExampleQE() {
 	// mu-: Ekin 417.1 MeV, cos theta 0.679; p: Ekin 266.2 MeV
 	// quasi-elastic energy 672 MeV (true 800 MeV)
 }
+
+func ExampleOpenHepMC() {
+	// A NuHepMC file written by the HepMC3 library (GeV, mm): the primaries
+	// are the final-state particles the simulator tracks; the neutrino
+	// truth comes from the NuHepMC conventions.
+	h, err := gen.OpenHepMC("../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3", gen.HepMCOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer h.Close()
+	ps, info, err := h.Generate(0, nil, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(h)
+	fmt.Printf("event %d: process %d, weight %g, nu %d of %.0f MeV on %d, Q2 %.0f MeV^2\n",
+		info.SourceEvent, info.Process, info.EventWeight(), info.Neutrino, info.NeutrinoEtot, info.Target, info.Q2)
+	for _, p := range ps {
+		fmt.Printf("primary %d: Ekin %.1f MeV at (%.1f, %.1f, %.1f) cm\n", p.PDG, p.Ekin, p.Pos.X, p.Pos.Y, p.Pos.Z)
+	}
+	fmt.Printf("nucleon %d: Ekin %.1f MeV; %d particles not tracked\n", info.FinalNucleon.PDG, info.FinalNucleon.Ekin, info.Skipped)
+	// Output:
+	// HepMC3 file ../../testdata/gen/hepmc3/nuhepmc_v1_gev_mm.hepmc3 (5 events)
+	// event 101: process 200, weight 1.25, nu 14 of 800 MeV on 1000080160, Q2 81349 MeV^2
+	// primary 13: Ekin 452.2 MeV at (10.0, -5.0, 2.5) cm
+	// nucleon 2212: Ekin 39.2 MeV; 2 particles not tracked
+}

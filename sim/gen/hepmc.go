@@ -351,3 +351,8 @@ type lineError struct {
 func (e *lineError) Error() string { return fmt.Sprintf("line %d: %s", e.line, e.msg) }
 
 var _ Generator = (*HepMC)(nil)
+
+// SourceFile returns the name of the file the events are read from (the
+// simulator's sim.SourceGenerator: runs then record each event's number in
+// the file and the run's accounting of the file).
+func (h *HepMC) SourceFile() string { return h.name }

@@ -122,14 +122,18 @@ func (pl *hepPlace) vertexPos(v int) ([4]float64, error) {
 }
 
 // particlePos returns where particle i starts (file units): its
-// production vertex, else the vertex it enters, else the event position.
+// production vertex, else (an incoming particle) the vertex it enters,
+// else the event position.
 func (pl *hepPlace) particlePos(i int) ([4]float64, error) {
 	v, err := pl.production(i)
 	if err != nil {
 		return [4]float64{}, err
 	}
 	if v < 0 {
-		if end := pl.e.parts[i].end; end >= 0 && pl.e.verts[end].placed {
+		// An incoming particle starts where it enters; one that comes
+		// from an incoming particle's unwritten end vertex (Asciiv3), at
+		// the event position, as that vertex has no other.
+		if end := pl.e.parts[i].end; pl.e.parts[i].mother < 0 && end >= 0 && pl.e.verts[end].placed {
 			return pl.e.verts[end].pos, nil
 		}
 		return pl.e.eventPos, nil

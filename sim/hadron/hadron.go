@@ -26,18 +26,10 @@ type Physics struct {
 // New builds the tables for medium m (which must contain hydrogen and
 // oxygen, as water does) with the heavy-particle settings cfg.
 func New(m material.Medium, cfg heavy.Config) (*Physics, error) {
-	p := &Physics{}
-	for _, e := range m.Elements {
-		n := m.Density * e.MassFraction * phys.Avogadro / e.A
-		switch e.Z {
-		case 1:
-			p.nH += n
-		case 8:
-			p.nO += n
-		default:
-			return nil, fmt.Errorf("hadron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen have hadronic cross-sections", e.Symbol, e.Z)
-		}
+	if e, ok := m.OtherThan(1, 8); ok {
+		return nil, fmt.Errorf("hadron: Medium.Elements has %s (Z = %d): only hydrogen and oxygen have hadronic cross-sections", e.Symbol, e.Z)
 	}
+	p := &Physics{nH: m.AtomDensity(1), nO: m.AtomDensity(8)}
 	if !(p.nH > 0 || p.nO > 0) {
 		return nil, errors.New("hadron: Medium.Elements holds neither hydrogen nor oxygen")
 	}
@@ -136,20 +128,15 @@ func fromHeavy(h heavy.Truth) Truth {
 }
 
 // emit reports the products as secondaries of track parent at pos, time
-// t; products with no kinetic energy are dropped (a nucleon left bound).
+// t, with the kinetic energy E - m from the particle table's mass;
+// products with no kinetic energy or momentum are dropped (a nucleon left
+// bound, a photon of zero energy).
 func emit(prods []product, pos r3.Vector, t float64, parent int, sink phys.Sink) int {
 	n := 0
 	for _, pr := range prods {
 		m := pr.p.Mass()
-		switch pr.pdg {
-		case phys.Gamma:
-			m = 0
-		case phys.ProtonCode, phys.NeutronCode:
-			m = nucleonMass(pr.pdg)
-		case phys.PionPlusCode, phys.PionMinusCode:
-			m = phys.PionMass
-		case phys.NeutralPionCode:
-			m = phys.PionZeroMass
+		if sp, err := phys.Lookup(pr.pdg); err == nil {
+			m = sp.Mass
 		}
 		ekin := pr.p.E - m
 		pn := pr.p.P.Norm()
@@ -185,6 +172,9 @@ func (p *Physics) TrackPion(part phys.Particle, vol phys.Volume, rng *rand.Rand,
 		out = pionDecay(phys.OnShell(phys.PionMass, h.EndEkin, h.EndDir), negative, rng, out)
 	case phys.Interacted:
 		out = p.pionInteraction(phys.OnShell(phys.PionMass, h.EndEkin, h.EndDir), negative, &tr, rng, out)
+		if tr.Channel == Absorption {
+			tr.Fate = phys.Absorbed
+		}
 	case phys.Stopped:
 		if negative {
 			// Atomic capture and cascade take picoseconds; the pion is
@@ -273,27 +263,19 @@ func (p *Physics) pionInteraction(pi phys.FourMomentum, negative bool, tr *Truth
 		if rng.Float64() < 0.1 {
 			target = unlike
 		}
-		out, ok := knockOut(pi, target, pdg, target, phys.PionMass, deltaCos, rng, dst)
-		if !ok {
-			tr.Channel = Elastic
-			return append(dst, product{pdg, coherentElastic(pi, rng)})
+		if out, ok := knockOut(pi, target, pdg, target, phys.PionMass, deltaCos, rng, dst); ok {
+			return out
 		}
-		if g, ok := deexcitation(target, rng); ok {
-			out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-		}
-		return out
+		tr.Channel = Elastic
+		return append(dst, product{pdg, coherentElastic(pi, rng)})
 	case u < (o[Elastic]+o[QuasiElastic]+o[ChargeExchange])*p.nO*millibarn:
 		tr.Channel = ChargeExchange
 		// pi+ n -> pi0 p, pi- p -> pi0 n.
-		out, ok := knockOut(pi, unlike, phys.NeutralPionCode, like, phys.PionZeroMass, deltaCos, rng, dst)
-		if !ok {
-			tr.Channel = Elastic
-			return append(dst, product{pdg, coherentElastic(pi, rng)})
+		if out, ok := knockOut(pi, unlike, phys.NeutralPionCode, like, phys.PionZeroMass, deltaCos, rng, dst); ok {
+			return out
 		}
-		if g, ok := deexcitation(unlike, rng); ok {
-			out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-		}
-		return out
+		tr.Channel = Elastic
+		return append(dst, product{pdg, coherentElastic(pi, rng)})
 	}
 	tr.Channel = Absorption
 	// pi+ (pn) -> p p, pi- (pn) -> n n.
@@ -372,18 +354,7 @@ func (p *Physics) NucleonInteraction(n phys.FourMomentum, pdg int, tr *Truth, rn
 		return append(dst, product{pdg, a}, product{phys.ProtonCode, b})
 	}
 	tr.Channel, tr.Target = QuasiElastic, 8
-	target := phys.ProtonCode
-	if rng.Float64() < 0.5 {
-		target = phys.NeutronCode
-	}
-	out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst)
-	if !ok {
-		return append(dst, product{pdg, n})
-	}
-	if g, ok := deexcitation(target, rng); ok {
-		out = append(out, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
-	}
-	return out
+	return KnockOutOxygen(n, pdg, rng, dst)
 }
 
 // Products is the exported form of an interaction product for packages
@@ -401,4 +372,26 @@ func (p product) Momentum() phys.FourMomentum { return p.p }
 // reported.
 func Emit(prods []Product, pos r3.Vector, t float64, parent int, sink phys.Sink) int {
 	return emit(prods, pos, t, parent, sink)
+}
+
+// ElasticOnProton scatters a nucleon of four-momentum n and mass m off a
+// free proton at rest, isotropically in the centre of mass (relativistic
+// two-body kinematics), and returns both outgoing four-momenta.
+func ElasticOnProton(n phys.FourMomentum, m float64, rng *rand.Rand) (a, b phys.FourMomentum, ok bool) {
+	return twoBody(n.Add(phys.FourMomentum{E: phys.ProtonMass}), m, phys.ProtonMass, n.P.Normalize(), uniformCos, rng)
+}
+
+// KnockOutOxygen returns the products of a nucleon (code pdg,
+// four-momentum n) knocking a proton or neutron (equal chances) out of
+// 16O, with the de-excitation gamma of the hole (see NucleonInteraction).
+func KnockOutOxygen(n phys.FourMomentum, pdg int, rng *rand.Rand, dst []Product) []Product {
+	m := nucleonMass(pdg)
+	target := phys.ProtonCode
+	if rng.Float64() < 0.5 {
+		target = phys.NeutronCode
+	}
+	if out, ok := knockOut(n, target, pdg, target, m, uniformCos, rng, dst); ok {
+		return out
+	}
+	return append(dst, product{pdg, n})
 }

@@ -11,24 +11,15 @@ import (
 	"github.com/conelight/conelight/sim/heavy"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
-type ball struct{ r float64 }
-
-func (b ball) Contains(p r3.Vector) bool { return p.Norm() < b.r }
-
-type slab struct{ thick float64 }
-
-func (s slab) Contains(p r3.Vector) bool { return p.Z >= 0 && p.Z < s.thick }
-
-type recordSink struct {
-	segs int
-	secs []phys.Particle
-}
-
-func (r *recordSink) Segment(phys.Segment)                     { r.segs++ }
-func (r *recordSink) Secondary(p phys.Particle)                { r.secs = append(r.secs, p) }
-func (r *recordSink) Deposit(r3.Vector, float64, float64, int) {}
+// The test volumes and sinks are those of phystest.
+type (
+	ball       = phystest.Ball
+	slab       = phystest.Slab
+	recordSink = phystest.RecordSink
+)
 
 func newPhysics(t testing.TB, cfg heavy.Config) *Physics {
 	t.Helper()
@@ -47,14 +38,18 @@ func along(pdg int, ekin float64) phys.Particle {
 
 func TestPionRangeScaledFromMuon(t *testing.T) {
 	// The Bethe formula depends on the particle only through beta gamma
-	// (up to the small m_e/M term of W_max), so R/M is a function of beta
-	// gamma alone (PDG Review, "Passage of particles through matter"):
-	// the pion's CSDA range at the muon's beta gamma is the muon's times
-	// m_pi/m_mu. Muon ranges in liquid water from Groom, Mokhov,
-	// Striganov, ADNDT 78 (2001) 183 (from memory, as in sim/heavy):
-	// 31.0 g/cm2 at 100 MeV, 470 g/cm2 at 1 GeV. Within 2%.
+	// (up to the small m_e/M term of W_max and the muon's radiative
+	// losses), so R/M is a function of beta gamma alone (PDG Review,
+	// "Passage of particles through matter"): the pion's CSDA range at the
+	// muon's beta gamma is the muon's times m_pi/m_mu. Muon CSDA ranges in
+	// liquid water from the muon table made with the PDG's water
+	// parameters (PUMAS table dedx/muon/water_liquid.txt of
+	// niess/pumas-materials, looked up): 31.23, 129.1 and 473.2 g/cm2 at
+	// 100, 300 and 1000 MeV. That table uses I = 79.7 eV, conelight 75.0
+	// eV (see material.Water), which shortens ranges by about 1%. Within
+	// 2%.
 	p := newPhysics(t, heavy.Config{})
-	for _, c := range []struct{ tMu, rMu float64 }{{100, 31.0}, {1000, 470}} {
+	for _, c := range []struct{ tMu, rMu float64 }{{100, 31.23}, {300, 129.1}, {1000, 473.2}} {
 		tPi := c.tMu * phys.PionMass / phys.MuonMass
 		r, err := p.Pion(false).CSDARange(tPi)
 		if err != nil {
@@ -68,10 +63,14 @@ func TestPionRangeScaledFromMuon(t *testing.T) {
 }
 
 func TestProtonRangePSTAR(t *testing.T) {
-	// NIST PSTAR, liquid water, CSDA range (g/cm2); values from memory
-	// (the tables could not be looked up). Within 2%.
+	// NIST PSTAR, liquid water, CSDA range (g/cm2), looked up: 10 MeV
+	// 0.1230, 20 MeV 0.4260, 50 MeV 2.227, 100 MeV 7.718, 200 MeV 25.96,
+	// 500 MeV 117.0, 1 GeV 325.4, 2 GeV 805.4. Within 2% (the issue's
+	// target from 10 MeV to 2 GeV).
 	p := newPhysics(t, heavy.Config{})
-	for _, c := range []struct{ t, r float64 }{{10, 0.1230}, {100, 7.718}, {200, 25.96}, {1000, 324.1}} {
+	for _, c := range []struct{ t, r float64 }{
+		{10, 0.1230}, {20, 0.4260}, {50, 2.227}, {100, 7.718}, {200, 25.96}, {500, 117.0}, {1000, 325.4}, {2000, 805.4},
+	} {
 		r, err := p.Proton().CSDARange(c.t)
 		if err != nil {
 			t.Fatal(err)
@@ -99,14 +98,14 @@ func TestPiPlusDecayAtRest(t *testing.T) {
 	var electrons int
 	for i := 0; i < n; i++ {
 		var s recordSink
-		tr, err := p.TrackPion(along(phys.PionPlusCode, 0), ball{10}, rng, &s)
+		tr, err := p.TrackPion(along(phys.PionPlusCode, 0), ball{R: 10}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != phys.StoppedDecayed || len(s.secs) != 1 {
-			t.Fatalf("pi+ at rest: fate %v, %d products", tr.Fate, len(s.secs))
+		if tr.Fate != phys.StoppedDecayed || len(s.Secs) != 1 {
+			t.Fatalf("pi+ at rest: fate %v, %d products", tr.Fate, len(s.Secs))
 		}
-		mu := s.secs[0]
+		mu := s.Secs[0]
 		switch mu.PDG {
 		case phys.MuonPlus:
 			if math.Abs(mu.Ekin-tmu) > 1e-9 {
@@ -136,15 +135,15 @@ func TestPiMinusCapturedAtRest(t *testing.T) {
 	rng := newRNG(3, 4)
 	for i := 0; i < 200; i++ {
 		var s recordSink
-		tr, err := p.TrackPion(along(phys.PionMinusCode, 0), ball{10}, rng, &s)
+		tr, err := p.TrackPion(along(phys.PionMinusCode, 0), ball{R: 10}, rng, &s)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Fate != phys.StoppedCaptured || tr.Channel != Absorption || len(s.secs) != 2 {
-			t.Fatalf("pi- at rest: fate %v, channel %v, %d products", tr.Fate, tr.Channel, len(s.secs))
+		if tr.Fate != phys.StoppedCaptured || tr.Channel != Absorption || len(s.Secs) != 2 {
+			t.Fatalf("pi- at rest: fate %v, channel %v, %d products", tr.Fate, tr.Channel, len(s.Secs))
 		}
 		sum := 0.0
-		for _, q := range s.secs {
+		for _, q := range s.Secs {
 			if q.PDG != phys.NeutronCode {
 				t.Fatalf("product %+v", q)
 			}
@@ -186,19 +185,22 @@ func TestPionInteractionLengthAndChannels(t *testing.T) {
 		var nO int
 		for j := 0; j < n; j++ {
 			var s recordSink
-			tr, err := p.TrackPion(along(phys.PionPlusCode, ekin), slab{thick}, rng, &s)
+			tr, err := p.TrackPion(along(phys.PionPlusCode, ekin), slab{Thick: thick}, rng, &s)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if tr.Fate != phys.Interacted {
+			if tr.Fate != phys.Interacted && tr.Fate != phys.Absorbed {
 				continue
+			}
+			if (tr.Fate == phys.Absorbed) != (tr.Channel == Absorption) {
+				t.Fatalf("fate %v for channel %v", tr.Fate, tr.Channel)
 			}
 			interacted++
 			if tr.Target == 8 {
 				onO[tr.Channel]++
 				nO++
 			}
-			checkProducts(t, tr.Channel, s.secs)
+			checkProducts(t, tr.Channel, s.Secs)
 		}
 		sPiO, _ := p.Pion(false).StoppingPower(ekin)
 		mid := ekin - sPiO*thick/2
@@ -280,7 +282,7 @@ func TestPiZeroDecay(t *testing.T) {
 		var s recordSink
 		_, dz := DecayPiZero(along(phys.NeutralPionCode, ekin), rng, &s)
 		sum := 0.0
-		for _, q := range s.secs {
+		for _, q := range s.Secs {
 			sum += q.Ekin
 			if q.PDG == phys.Electron || q.PDG == phys.Positron {
 				sum += phys.ElectronMass
@@ -293,7 +295,7 @@ func TestPiZeroDecay(t *testing.T) {
 			dalitz++
 			continue
 		}
-		a, b := s.secs[0], s.secs[1]
+		a, b := s.Secs[0], s.Secs[1]
 		m2 := 2 * a.Ekin * b.Ekin * (1 - a.Dir.Dot(b.Dir))
 		if math.Abs(math.Sqrt(m2)/phys.PionZeroMass-1) > 1e-6 {
 			t.Fatalf("photon pair mass %.6f", math.Sqrt(m2))
@@ -336,7 +338,7 @@ func TestPiZeroOpeningAngle(t *testing.T) {
 		if _, dz := DecayPiZero(along(phys.NeutralPionCode, ekin), rng, &s); dz {
 			continue
 		}
-		a := math.Acos(s.secs[0].Dir.Dot(s.secs[1].Dir))
+		a := math.Acos(s.Secs[0].Dir.Dot(s.Secs[1].Dir))
 		if a < thMin*(1-1e-9) {
 			t.Fatalf("opening angle %g below the minimum %g", a, thMin)
 		}
@@ -352,4 +354,125 @@ func TestPiZeroOpeningAngle(t *testing.T) {
 	if se := 1 / (2 * f * math.Sqrt(n)); math.Abs(med-want) > 5*se {
 		t.Errorf("median opening angle %.5f rad, analytic %.5f (se %.5f)", med, want, se)
 	}
+}
+
+func TestPionCherenkovThreshold(t *testing.T) {
+	// Segments are reported only above beta = 1/n: for a pion at the
+	// configured index n = 1.33 the threshold momentum is
+	// m_pi/sqrt(n^2 - 1) = 159.2 MeV/c (the ~159 MeV/c of water). A pion
+	// started at 150 MeV/c makes no segment; one at 250 MeV/c makes
+	// segments that start above the threshold speed.
+	const n = 1.33
+	p := newPhysics(t, heavy.Config{ThresholdIndex: n, NoScattering: true})
+	thr := phys.PionMass / math.Sqrt(n*n-1)
+	if math.Abs(thr-159.2) > 0.1 {
+		t.Fatalf("threshold %g MeV/c", thr)
+	}
+	rng := newRNG(11, 12)
+	for _, c := range []struct {
+		mom   float64
+		light bool
+	}{{150, false}, {250, true}} {
+		var s recordSink
+		_, err := p.TrackPion(along(phys.PionPlusCode, phys.KineticFromMomentum(c.mom, phys.PionMass)), ball{R: 1e4}, rng, &s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if (len(s.Segs) > 0) != c.light {
+			t.Errorf("%g MeV/c: %d segments", c.mom, len(s.Segs))
+		}
+		for _, g := range s.Segs {
+			if g.Track == 1 && g.Beta0 <= 1/n {
+				t.Errorf("segment starting at beta %g below 1/n", g.Beta0)
+			}
+		}
+	}
+}
+
+func TestInteractionEnergyBalance(t *testing.T) {
+	// Energy conservation of the nuclear model: the products of a
+	// quasi-elastic or charge-exchange collision carry the pion's total
+	// energy plus the struck nucleon's bound energy, sqrt(m^2 + p_F^2) -
+	// 27 MeV; so their kinetic energies (with the de-excitation gamma)
+	// add up to T_pi - 27 MeV + T_Fermi + (m_pi - m_out) + (m_target -
+	// m_nucleon_out), T_Fermi between 0 and 26.6 MeV (k_F = 225 MeV/c).
+	// Absorption: T_pi + m_pi - 54 MeV + two Fermi energies.
+	p := newPhysics(t, heavy.Config{})
+	rng := newRNG(13, 14)
+	const tpi = 200.0
+	tfMax := math.Hypot(fermiMomentum, phys.ProtonMass) - phys.ProtonMass
+	for i := 0; i < 3000; i++ {
+		var tr Truth
+		pi := phys.OnShell(phys.PionMass, tpi, r3.Vector{Z: 1})
+		out := p.pionInteraction(pi, i%2 == 1, &tr, rng, nil)
+		if tr.Target != 8 || tr.Channel == Elastic {
+			continue
+		}
+		var sumE float64
+		for _, q := range out {
+			sumE += q.p.E
+		}
+		lo := tpi + phys.PionMass + phys.NeutronMass - removalEnergy - 1
+		if tr.Channel == Absorption {
+			lo = tpi + phys.PionMass + phys.ProtonMass + phys.NeutronMass - 2*removalEnergy - 1
+		}
+		hi := lo + 2 + 2*tfMax + 2 // +2 for the n-p mass difference and the gamma's share
+		if tr.Channel != Absorption {
+			hi = lo + 2 + tfMax + 7
+		}
+		if sumE < lo || sumE > hi {
+			t.Fatalf("%v: products carry %.2f MeV, expected %.2f-%.2f", tr.Channel, sumE, lo, hi)
+		}
+	}
+}
+
+func TestProtonNuclearInteractionProbability(t *testing.T) {
+	// Protons of 200 MeV stopping in water: the fraction with a
+	// non-elastic nuclear interaction (on oxygen) against the integral of
+	// the model cross-section along the CSDA path, 1 - exp(-int n_O
+	// sigma_R dE/S) (5 binomial standard errors plus 3% for straggling
+	// and the trapezoid steps), and against the rule of about 1% of the
+	// protons lost per cm of range in water (ICRU Report 63, nuclear data
+	// for proton therapy; from memory): 1 - exp(-0.01 R) = 23% for the
+	// 26 cm of a 200 MeV proton, within 4 percentage points.
+	p := newPhysics(t, heavy.Config{})
+	rng := newRNG(15, 16)
+	const n, t0 = 4000, 200.0
+	var onO int
+	for i := 0; i < n; i++ {
+		var s recordSink
+		tr, err := p.TrackProton(along(phys.ProtonCode, t0), ball{R: 1e4}, rng, &s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if tr.Fate == phys.Interacted && tr.Target == 8 {
+			onO++
+		}
+	}
+	// The integral, by the midpoint rule in T over 1 MeV steps. Elastic
+	// p-p scatters (above 50 MeV) end the track too: a proton scattered on
+	// hydrogen is a new track and is not counted here, so its later
+	// oxygen interactions are missed; their share (a few per cent of
+	// 20%) is inside the tolerance.
+	var depth float64
+	for x := 1.5; x < t0; x++ {
+		s, _ := p.Proton().StoppingPower(x)
+		depth += p.nO * ProtonOxygenReaction(x) * millibarn / s
+	}
+	// Probability of reaching an oxygen interaction before a p-p scatter.
+	var depthH float64
+	for x := 50.5; x < t0; x++ {
+		s, _ := p.Proton().StoppingPower(x)
+		depthH += p.nH * ProtonProtonElastic(x) * millibarn / s
+	}
+	want := 1 - math.Exp(-depth)
+	f := float64(onO) / n
+	if math.Abs(f-want) > 5*math.Sqrt(want*(1-want)/n)+0.03*want+(1-math.Exp(-depthH))*want {
+		t.Errorf("200 MeV protons: %.3f interact on oxygen, model integral %.3f", f, want)
+	}
+	r, _ := p.Proton().CSDARange(t0)
+	if rule := 1 - math.Exp(-0.01*r); math.Abs(want-rule) > 0.04 {
+		t.Errorf("model non-elastic probability %.3f, 1%%/cm rule %.3f", want, rule)
+	}
+	t.Logf("200 MeV protons: %.3f on oxygen (n = %d), integral %.3f", f, n, want)
 }

@@ -110,10 +110,11 @@ func deexcitation(holePDG int, rng *rand.Rand) (float64, bool) {
 // knockOut scatters the projectile (code projPDG, four-momentum proj) off
 // a bound nucleon of kind targetPDG in 16O, giving outgoing codes out1
 // (the scattered projectile) and out2 (the nucleon), with polar angle
-// distribution cosDist in the pair's rest frame. Collisions leaving the
-// nucleon below the Fermi momentum are Pauli-blocked and redrawn (at most
-// maxPauliTries times, then kept). ok is false when the pair is below
-// threshold for every draw.
+// distribution cosDist in the pair's rest frame, and the de-excitation
+// gamma of the hole it leaves. Collisions leaving the nucleon below the
+// Fermi momentum are Pauli-blocked and redrawn (at most maxPauliTries
+// times, then kept). ok is false when the pair is below threshold for
+// every draw.
 func knockOut(proj phys.FourMomentum, targetPDG, out1, out2 int, m1 float64, cosDist func(*rand.Rand) float64, rng *rand.Rand, dst []product) ([]product, bool) {
 	m2 := nucleonMass(out2)
 	for try := 0; try < maxPauliTries; try++ {
@@ -125,7 +126,11 @@ func knockOut(proj phys.FourMomentum, targetPDG, out1, out2 int, m1 float64, cos
 		if b.P.Norm() < fermiMomentum && try < maxPauliTries-1 {
 			continue
 		}
-		return append(dst, product{out1, a}, product{out2, b}), true
+		dst = append(dst, product{out1, a}, product{out2, b})
+		if g, ok := deexcitation(targetPDG, rng); ok {
+			dst = append(dst, product{phys.Gamma, phys.FourMomentum{E: g, P: isotropic(rng).Mul(g)}})
+		}
+		return dst, true
 	}
 	return dst, false
 }

@@ -39,25 +39,7 @@ func DecayPiZero(part phys.Particle, rng *rand.Rand, sink phys.Sink) (n int, dal
 		em, ep, _ := twoBody(virt, phys.ElectronMass, phys.ElectronMass, r3.Vector{Z: 1}, uniformCos, rng)
 		out = append(out, product{phys.Gamma, g}, product{phys.Electron, em}, product{phys.Positron, ep})
 	}
-	return emitAll(out, part.Pos, part.Time, part.Track, sink), dalitz
-}
-
-// emitAll is emit with the masses of photons and electrons.
-func emitAll(prods []product, pos r3.Vector, t float64, parent int, sink phys.Sink) int {
-	n := 0
-	for _, pr := range prods {
-		m := 0.0
-		if pr.pdg == phys.Electron || pr.pdg == phys.Positron {
-			m = phys.ElectronMass
-		}
-		pn := pr.p.P.Norm()
-		if !(pn > 0) {
-			continue
-		}
-		sink.Secondary(phys.Particle{PDG: pr.pdg, Pos: pos, Dir: pr.p.P.Mul(1 / pn), Time: t, Ekin: math.Max(pr.p.E-m, 0), Parent: parent})
-		n++
-	}
-	return n
+	return emit(out, part.Pos, part.Time, part.Track, sink), dalitz
 }
 
 // sampleKrollWada draws x = m_ee^2/m_pi^2 from the Kroll-Wada spectrum:

@@ -1,6 +1,7 @@
 package hadron
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/conelight/conelight/sim/phys"
@@ -37,7 +38,7 @@ func (c Channel) String() string {
 	if c >= 0 && c < numChannels {
 		return channelNames[c]
 	}
-	return "Channel(?)"
+	return fmt.Sprintf("Channel(%d)", int(c))
 }
 
 // pionOxygen is the pi+- 16O cross-section per channel (mb) against pion
@@ -63,47 +64,56 @@ var pionOxygen = [...]struct{ t, el, qe, cx, abs float64 }{
 	{1e4, 100, 220, 20, 20},
 }
 
-// interp returns a linear interpolation in ln T of column col of a table
-// given by its abscissae ts and values, clamped at the ends.
-func interpLog(ts []float64, vs []float64, t float64) float64 {
-	n := len(ts)
+// InterpLog interpolates the table (xs, ys) linearly in ln x at x,
+// holding the end values outside it; xs must be increasing and positive.
+// It is the interpolation of every cross-section table of sim/hadron and
+// sim/neutron.
+func InterpLog(xs, ys []float64, x float64) float64 {
+	n := len(xs)
 	switch {
-	case t <= ts[0]:
-		return vs[0]
-	case t >= ts[n-1]:
-		return vs[n-1]
+	case x <= xs[0]:
+		return ys[0]
+	case x >= xs[n-1]:
+		return ys[n-1]
 	}
 	i := 1
-	for ts[i] < t {
+	for xs[i] < x {
 		i++
 	}
-	f := math.Log(t/ts[i-1]) / math.Log(ts[i]/ts[i-1])
-	return vs[i-1] + f*(vs[i]-vs[i-1])
+	f := math.Log(x/xs[i-1]) / math.Log(xs[i]/xs[i-1])
+	return ys[i-1] + f*(ys[i]-ys[i-1])
+}
+
+// pionOxygenAt interpolates the pionOxygen rows linearly in ln T,
+// clamped at the ends.
+func pionOxygenAt(t float64) [numChannels]float64 {
+	var out [numChannels]float64
+	n := len(pionOxygen)
+	if t <= pionOxygen[0].t {
+		t = pionOxygen[0].t
+	}
+	if t >= pionOxygen[n-1].t {
+		t = pionOxygen[n-1].t
+	}
+	i := 1
+	for i < n-1 && pionOxygen[i].t < t {
+		i++
+	}
+	lo, hi := pionOxygen[i-1], pionOxygen[i]
+	f := math.Log(t/lo.t) / math.Log(hi.t/lo.t)
+	out[Elastic] = lo.el + f*(hi.el-lo.el)
+	out[QuasiElastic] = lo.qe + f*(hi.qe-lo.qe)
+	out[ChargeExchange] = lo.cx + f*(hi.cx-lo.cx)
+	out[Absorption] = lo.abs + f*(hi.abs-lo.abs)
+	return out
 }
 
 // PionOxygen returns the pi-16O cross-sections (mb) of the four channels
 // at pion kinetic energy t (MeV), indexed by Channel (index 0 unused).
-func PionOxygen(t float64) [numChannels]float64 {
-	n := len(pionOxygen)
-	ts := make([]float64, 0, 16)
-	cols := [4][]float64{}
-	for i := 0; i < n; i++ {
-		r := pionOxygen[i]
-		ts = append(ts, r.t)
-		cols[0] = append(cols[0], r.el)
-		cols[1] = append(cols[1], r.qe)
-		cols[2] = append(cols[2], r.cx)
-		cols[3] = append(cols[3], r.abs)
-	}
-	var out [numChannels]float64
-	for c := 0; c < 4; c++ {
-		out[c+1] = interpLog(ts, cols[c], t)
-	}
-	return out
-}
+func PionOxygen(t float64) [numChannels]float64 { return pionOxygenAt(t) }
 
-// Delta(1232) parameters (PDG Review 2024, Breit-Wigner mass and width
-// 1210-1219 / 1232 MeV; 1232 and 117 MeV used here).
+// Delta(1232) Breit-Wigner mass and width, 1232 and 117 MeV (PDG Review
+// particle listings; from memory).
 const (
 	deltaMass  = 1232.0
 	deltaWidth = 117.0
@@ -158,20 +168,15 @@ func piProton(t float64, negative bool) (el, cx float64) {
 // compilation of Carlson, Atomic Data and Nuclear Data Tables 63 (1996)
 // 93; VALUES FROM MEMORY. Neutrons on 16O above 20 MeV are given the same
 // non-elastic cross-section.
-var protonOxygenReaction = [...]struct{ t, sigma float64 }{
-	{10, 400}, {20, 480}, {30, 450}, {50, 390}, {100, 320}, {200, 290},
-	{500, 300}, {1000, 330}, {2000, 340}, {1e4, 340},
+var protonOxygenReaction = [2][10]float64{
+	{10, 20, 30, 50, 100, 200, 500, 1000, 2000, 1e4},
+	{400, 480, 450, 390, 320, 290, 300, 330, 340, 340},
 }
 
 // ProtonOxygenReaction returns the p-16O reaction cross-section (mb) at
 // proton kinetic energy t (MeV).
 func ProtonOxygenReaction(t float64) float64 {
-	ts := make([]float64, len(protonOxygenReaction))
-	vs := make([]float64, len(protonOxygenReaction))
-	for i, r := range protonOxygenReaction {
-		ts[i], vs[i] = r.t, r.sigma
-	}
-	return interpLog(ts, vs, t)
+	return InterpLog(protonOxygenReaction[0][:], protonOxygenReaction[1][:], t)
 }
 
 // protonProtonElastic is the nuclear p-p elastic cross-section (mb)
@@ -179,17 +184,13 @@ func ProtonOxygenReaction(t float64) float64 {
 // nucleon-nucleon plots: falls from ~60 mb at 50 MeV to the ~24 mb
 // plateau; the inelastic p-p cross-section above 300 MeV is counted as
 // elastic.
-var protonProtonElastic = [...]struct{ t, sigma float64 }{
-	{50, 60}, {100, 33}, {200, 24}, {500, 24}, {1000, 47}, {1e4, 40},
+var protonProtonElastic = [2][6]float64{
+	{50, 100, 200, 500, 1000, 1e4},
+	{60, 33, 24, 24, 47, 40},
 }
 
 // ProtonProtonElastic returns the p-p cross-section (mb) used for protons
 // on the hydrogen of water at kinetic energy t (MeV).
 func ProtonProtonElastic(t float64) float64 {
-	ts := make([]float64, len(protonProtonElastic))
-	vs := make([]float64, len(protonProtonElastic))
-	for i, r := range protonProtonElastic {
-		ts[i], vs[i] = r.t, r.sigma
-	}
-	return interpLog(ts, vs, t)
+	return InterpLog(protonProtonElastic[0][:], protonProtonElastic[1][:], t)
 }

@@ -5,23 +5,17 @@ import (
 	"sort"
 	"testing"
 
-	"gonum.org/v1/gonum/stat/distuv"
-
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
-
-// chiSquareCritical is the chi-square value exceeded with probability
-// 1e-4 for dof degrees of freedom (gonum distuv.ChiSquared).
-func chiSquareCritical(dof int) float64 {
-	return distuv.ChiSquared{K: float64(dof)}.Quantile(1 - 1e-4)
-}
 
 func TestDeltaSpectrum(t *testing.T) {
 	// Sampled delta-ray energies against the spin-1/2 cross-section
 	// (PDG Review, "Passage of particles through matter"), integrated per
 	// bin by quadrature; chi-square test at alpha = 1e-4.
 	p := newWater(t, Config{})
-	rng := newRNG(11, 12)
+	rng := phystest.NewRNG(11, 12)
 	for _, ekin := range []float64{300, 1e4} {
 		k := p.kin(ekin)
 		const cut, nb, n = 1.0, 30, 100000
@@ -29,19 +23,22 @@ func TestDeltaSpectrum(t *testing.T) {
 		for i := range edges {
 			edges[i] = cut * math.Pow(k.tmax/cut, float64(i)/nb)
 		}
-		counts := make([]float64, nb)
+		counts := make([]int, nb)
 		for i := 0; i < n; i++ {
 			x := sampleDeltaEnergy(k, cut, rng)
 			j := sort.SearchFloat64s(edges, x) - 1
 			counts[j]++
 		}
 		total := p.deltaSigmaOf(k, cut)
-		var chi2 float64
-		for j := range counts {
-			want := n * integrateLog(func(x float64) float64 { return deltaSpectrum(p, ekin, x) }, edges[j], edges[j+1]) / total
-			chi2 += (counts[j] - want) * (counts[j] - want) / want
+		want := make([]float64, nb)
+		for j := range want {
+			want[j] = n * integrateLog(func(x float64) float64 { return deltaSpectrum(p, ekin, x) }, edges[j], edges[j+1]) / total
 		}
-		if crit := chiSquareCritical(nb - 1); chi2 > crit {
+		chi2, dof, err := resolution.ChiSquare(counts, want, 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if crit := resolution.ChiSquareCritical(dof, 1e-4); chi2 > crit {
 			t.Errorf("T=%g: delta spectrum chi2 = %.1f above %.1f", ekin, chi2, crit)
 		}
 	}
@@ -53,7 +50,7 @@ func TestDeltaKinematics(t *testing.T) {
 	// vector conservation, its magnitude equals sqrt((E-T)^2 - m^2) from
 	// energy conservation (independent two-body relation).
 	p := newWater(t, Config{})
-	rng := newRNG(13, 14)
+	rng := phystest.NewRNG(13, 14)
 	for _, ekin := range []float64{60, 200, 1000, 1e4, 1e6} {
 		k := p.kin(ekin)
 		dir := phys.Deflect(muonAlongZ(13, 0).Dir, 0.3, 1)
@@ -76,7 +73,7 @@ func TestSampleGammaMoments(t *testing.T) {
 	// Gamma(a, 1) has mean a and variance a; the standard error of the
 	// sample mean is sqrt(a/n) and of the sample variance
 	// sqrt((mu4 - sigma^4)/n) with mu4 = 3a^2 + 6a. Five of them allowed.
-	rng := newRNG(15, 16)
+	rng := phystest.NewRNG(15, 16)
 	const n = 100000
 	x := make([]float64, n)
 	for _, a := range []float64{0.2, 1, 4.5, 300} {

@@ -280,9 +280,12 @@ func invMeanBeta(b0, b1 float64) float64 {
 	return math.Log(b0/b1) / (b0 - b1)
 }
 
-// crossing returns the distance along the unit vector u from pos (inside
+// Crossing returns the distance along the unit vector u from pos (inside
 // vol) at which the straight line leaves vol, knowing the point at
 // distance s is outside: bisection to s*2^-40, returning the outer side.
+// It is how every transport code here finds the volume boundary.
+func Crossing(vol phys.Volume, pos, u r3.Vector, s float64) float64 { return crossing(vol, pos, u, s) }
+
 func crossing(vol phys.Volume, pos, u r3.Vector, s float64) float64 {
 	lo, hi := 0.0, s
 	for i := 0; i < 40; i++ {

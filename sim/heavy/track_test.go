@@ -11,6 +11,7 @@ import (
 
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 	"github.com/conelight/conelight/sim/scatter"
 )
 
@@ -28,11 +29,11 @@ func TestMeanRangeAndStraggling(t *testing.T) {
 	// deviation (from the sample kurtosis) plus 5% for the first-order
 	// formula with the heavy delta-ray tail.
 	p := newWater(t, Config{})
-	rng := newRNG(31, 32)
+	rng := phystest.NewRNG(31, 32)
 	const n, ekin = 1500, 1000.0
 	var lengths []float64
 	for i := 0; i < n; i++ {
-		tr, err := p.Track(muonAlongZ(phys.MuonPlus, ekin), ball{1e5}, rng, &countSink{})
+		tr, err := p.Track(muonAlongZ(phys.MuonPlus, ekin), ball{R: 1e5}, rng, &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -70,9 +71,9 @@ func TestMeanRangeAndStraggling(t *testing.T) {
 // projectedWidths returns the rms projected angle (x-z plane) and rms x
 // displacement of muons sent along z through a slab of water.
 func projectedWidths(t *testing.T, p *Physics, thick float64, n int, seed uint64) (angles, disp []float64) {
-	rng := newRNG(seed, 33)
+	rng := phystest.NewRNG(seed, 33)
 	for i := 0; i < n; i++ {
-		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 1000), slab{thick}, rng, &countSink{})
+		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 1000), slab{Thick: thick}, rng, &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -149,19 +150,19 @@ func TestSegments(t *testing.T) {
 	// and the last ending below it (light stops at threshold). Delta rays
 	// are electrons from the track at a segment end.
 	p := newWater(t, Config{})
-	rng := newRNG(41, 42)
+	rng := phystest.NewRNG(41, 42)
 	thr := 1 / p.cfg.ThresholdIndex
 	for _, pdg := range []int{phys.MuonMinus, phys.MuonPlus} {
 		var rec recordSink
-		tr, err := p.Track(muonAlongZ(pdg, 1000), ball{1e4}, rng, &rec)
+		tr, err := p.Track(muonAlongZ(pdg, 1000), ball{R: 1e4}, rng, &rec)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tr.Segments != len(rec.segs) || len(rec.segs) < 10 {
-			t.Fatalf("%d segments, truth says %d", len(rec.segs), tr.Segments)
+		if tr.Segments != len(rec.Segs) || len(rec.Segs) < 10 {
+			t.Fatalf("%d segments, truth says %d", len(rec.Segs), tr.Segments)
 		}
 		ends := map[r3.Vector]float64{}
-		for i, s := range rec.segs {
+		for i, s := range rec.Segs {
 			if s.PDG != pdg || s.Track != 1 || s.Charge != map[int]int{13: -1, -13: 1}[pdg] {
 				t.Fatalf("segment %d labels %+v", i, s)
 			}
@@ -169,7 +170,7 @@ func TestSegments(t *testing.T) {
 				t.Fatalf("segment %d: beta %g -> %g (threshold %g)", i, s.Beta0, s.Beta1, thr)
 			}
 			if i > 0 {
-				prev := rec.segs[i-1]
+				prev := rec.Segs[i-1]
 				if prev.End != s.Start || prev.T1 != s.T0 {
 					t.Fatalf("segment %d not continuous with %d", i, i-1)
 				}
@@ -182,11 +183,11 @@ func TestSegments(t *testing.T) {
 			}
 			ends[s.End] = s.T1
 		}
-		if last := rec.segs[len(rec.segs)-1]; tr.Fate == phys.Stopped && last.Beta1 >= thr {
+		if last := rec.Segs[len(rec.Segs)-1]; tr.Fate == phys.Stopped && last.Beta1 >= thr {
 			t.Errorf("last segment ends at beta %g above threshold %g", last.Beta1, thr)
 		}
-		lastT := rec.segs[len(rec.segs)-1].T1
-		for _, d := range rec.secs {
+		lastT := rec.Segs[len(rec.Segs)-1].T1
+		for _, d := range rec.Secs {
 			// Skip deltas made below threshold (possible between 44 and
 			// 51 MeV for a 1 MeV cut).
 			if d.Time > lastT {
@@ -208,14 +209,14 @@ func TestBelowThresholdNoLight(t *testing.T) {
 	// for straggling and scattering detours) and emits no segment.
 	p := newWater(t, Config{})
 	var sink countSink
-	tr, err := p.Track(muonAlongZ(phys.MuonPlus, 40), ball{100}, newRNG(43, 44), &sink)
+	tr, err := p.Track(muonAlongZ(phys.MuonPlus, 40), ball{R: 100}, phystest.NewRNG(43, 44), &sink)
 	if err != nil {
 		t.Fatal(err)
 	}
 	r40, _ := p.CSDARange(40)
 	r1, _ := p.CSDARange(1)
-	if sink.segments != 0 || tr.Fate != phys.Stopped || math.Abs(tr.TrackLength*p.rho/(r40-r1)-1) > 0.05 {
-		t.Errorf("40 MeV muon: %d segments, fate %v, path %g cm (CSDA %g)", sink.segments, tr.Fate, tr.TrackLength, (r40-r1)/p.rho)
+	if sink.Segments != 0 || tr.Fate != phys.Stopped || math.Abs(tr.TrackLength*p.rho/(r40-r1)-1) > 0.05 {
+		t.Errorf("40 MeV muon: %d segments, fate %v, path %g cm (CSDA %g)", sink.Segments, tr.Fate, tr.TrackLength, (r40-r1)/p.rho)
 	}
 }
 
@@ -223,12 +224,12 @@ func TestEnergyConservation(t *testing.T) {
 	// Bookkeeping: initial kinetic energy = deposits + delta rays + kinetic
 	// energy on exit, and the sink saw what the truth says.
 	p := newWater(t, Config{DeltaCut: 0.3})
-	rng := newRNG(45, 46)
+	rng := phystest.NewRNG(45, 46)
 	for _, c := range []struct {
 		ekin, radius float64
 	}{{1000, 1e4}, {3000, 300}, {200, 1e4}, {0.5, 10}} {
 		var sink countSink
-		tr, err := p.Track(muonAlongZ(phys.MuonMinus, c.ekin), ball{c.radius}, rng, &sink)
+		tr, err := p.Track(muonAlongZ(phys.MuonMinus, c.ekin), ball{R: c.radius}, rng, &sink)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -236,8 +237,8 @@ func TestEnergyConservation(t *testing.T) {
 		if math.Abs(sum-c.ekin) > 1e-9*c.ekin {
 			t.Errorf("T=%g: deposits %g + deltas %g + exit %g = %g", c.ekin, tr.Deposited, tr.DeltaEnergy, tr.EndEkin, sum)
 		}
-		if math.Abs(sink.deposited-tr.Deposited) > 1e-9*c.ekin ||
-			math.Abs(sink.secondaryEkin-tr.DeltaEnergy) > 1e-9*c.ekin {
+		if math.Abs(sink.Deposited-tr.Deposited) > 1e-9*c.ekin ||
+			math.Abs(sink.SecondaryEkin-tr.DeltaEnergy) > 1e-9*c.ekin {
 			t.Errorf("T=%g: sink totals differ from truth", c.ekin)
 		}
 	}
@@ -248,7 +249,7 @@ func TestExit(t *testing.T) {
 	// point lies on the sphere (bisection to 1e-9 cm), outside side, with
 	// about 1 GeV - 100 cm x S left (within 30% of the loss: deltas).
 	p := newWater(t, Config{})
-	tr, err := p.Track(muonAlongZ(phys.MuonPlus, 1000), ball{100}, newRNG(47, 48), &countSink{})
+	tr, err := p.Track(muonAlongZ(phys.MuonPlus, 1000), ball{R: 100}, phystest.NewRNG(47, 48), &countSink{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -266,8 +267,8 @@ func TestExit(t *testing.T) {
 
 func TestDeterministic(t *testing.T) {
 	p := newWater(t, Config{})
-	a, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{1e4}, newRNG(1, 1), &countSink{})
-	b, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{1e4}, newRNG(1, 1), &countSink{})
+	a, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{R: 1e4}, phystest.NewRNG(1, 1), &countSink{})
+	b, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{R: 1e4}, phystest.NewRNG(1, 1), &countSink{})
 	if a != b {
 		t.Errorf("same seed, different truth:\n%+v\n%+v", a, b)
 	}
@@ -291,18 +292,18 @@ func TestBadInput(t *testing.T) {
 		{with(func(q *phys.Particle) { q.Pos = r3.Vector{X: 50} }), "Particle.Pos"},
 		{with(func(q *phys.Particle) { q.Time = math.NaN() }), "Particle.Time = NaN"},
 	} {
-		_, err := p.Track(c.part, ball{10}, newRNG(1, 2), &countSink{})
+		_, err := p.Track(c.part, ball{R: 10}, phystest.NewRNG(1, 2), &countSink{})
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("Track(%+v): error %v, want it to mention %q", c.part, err, c.want)
 		}
 	}
-	if _, err := p.Track(good, nil, newRNG(1, 2), &countSink{}); err == nil {
+	if _, err := p.Track(good, nil, phystest.NewRNG(1, 2), &countSink{}); err == nil {
 		t.Error("nil volume accepted")
 	}
-	if _, err := p.Track(good, ball{10}, nil, &countSink{}); err == nil {
+	if _, err := p.Track(good, ball{R: 10}, nil, &countSink{}); err == nil {
 		t.Error("nil rng accepted")
 	}
-	if _, err := p.Track(good, ball{10}, newRNG(1, 2), nil); err == nil {
+	if _, err := p.Track(good, ball{R: 10}, phystest.NewRNG(1, 2), nil); err == nil {
 		t.Error("nil sink accepted")
 	}
 	for _, c := range []struct {
@@ -344,7 +345,7 @@ func TestContinuousSlowingDown(t *testing.T) {
 	// range; only table rounding may differ), on a straight line.
 	p := newWater(t, Config{NoDeltaRays: true, NoStraggling: true, NoScattering: true})
 	for _, ekin := range []float64{30, 1000, 20000} {
-		tr, err := p.Track(muonAlongZ(phys.MuonPlus, ekin), ball{1e6}, newRNG(61, 62), &countSink{})
+		tr, err := p.Track(muonAlongZ(phys.MuonPlus, ekin), ball{R: 1e6}, phystest.NewRNG(61, 62), &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -371,12 +372,12 @@ func TestDecayLengthInFlight(t *testing.T) {
 			t.Fatal(err)
 		}
 		p.frozen = true
-		rng := newRNG(27, 28)
+		rng := phystest.NewRNG(27, 28)
 		k := p.kin(1000)
 		lengths := make([]float64, n)
 		for i := range lengths {
 			part := muonAlongZ(sp.Positive, 1000)
-			tr, err := p.Track(part, ball{1e9}, rng, &countSink{})
+			tr, err := p.Track(part, ball{R: 1e9}, rng, &countSink{})
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -83,3 +83,31 @@ func (m Medium) DensityEffect(bg float64) float64 {
 		return m.SternheimerDelta0 * math.Pow(10, 2*(x-m.SternheimerX0))
 	}
 }
+
+// AtomDensity returns the number of atoms of atomic number z per cm^3
+// (0 if the medium has none).
+func (m Medium) AtomDensity(z int) float64 {
+	const avogadro = 6.02214076e23
+	var n float64
+	for _, e := range m.Elements {
+		if e.Z == z {
+			n += m.Density * e.MassFraction * avogadro / e.A
+		}
+	}
+	return n
+}
+
+// OtherThan returns the first element whose atomic number is not among
+// zs, and whether there is one.
+func (m Medium) OtherThan(zs ...int) (Element, bool) {
+	for _, e := range m.Elements {
+		known := false
+		for _, z := range zs {
+			known = known || e.Z == z
+		}
+		if !known {
+			return e, true
+		}
+	}
+	return Element{}, false
+}

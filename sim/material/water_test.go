@@ -46,3 +46,18 @@ func TestDensityEffectContinuity(t *testing.T) {
 		t.Errorf("C-bar from plasma energy = %g, table %g", cbar, w.SternheimerCbar)
 	}
 }
+
+func TestAtomDensity(t *testing.T) {
+	// Liquid water, 1 g/cm^3, 18.015 g/mol: 3.343e22 molecules per cm^3
+	// (Avogadro's number / molar mass), so 6.686e22 H and 3.343e22 O.
+	w := Water()
+	if h, o := w.AtomDensity(1), w.AtomDensity(8); math.Abs(h/6.686e22-1) > 1e-3 || math.Abs(o/3.343e22-1) > 1e-3 {
+		t.Errorf("H %.4g, O %.4g per cm3", h, o)
+	}
+	if _, ok := w.OtherThan(1, 8); ok {
+		t.Error("water has an element other than H and O")
+	}
+	if e, ok := w.OtherThan(1); !ok || e.Z != 8 {
+		t.Errorf("OtherThan(1) = %+v, %v", e, ok)
+	}
+}

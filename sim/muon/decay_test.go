@@ -4,11 +4,11 @@ import (
 	"math"
 	"testing"
 
-	"gonum.org/v1/gonum/stat/distuv"
-
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
 func TestMichelEndpoint(t *testing.T) {
@@ -22,9 +22,9 @@ func TestMichelSpectrum(t *testing.T) {
 	// Sampled x against the Michel spectrum x^2 (3 - 2x) (V-A, rho = 3/4),
 	// cumulative G(x) = 2x^3 - x^4 normalized on [m_e/W, 1]; chi-square at
 	// alpha = 1e-4 with the critical value from gonum distuv.ChiSquared.
-	rng := newRNG(21, 22)
+	rng := phystest.NewRNG(21, 22)
 	const nb, n = 40, 200000
-	counts := make([]float64, nb)
+	counts := make([]int, nb)
 	for i := 0; i < n; i++ {
 		x := SampleMichel(rng)
 		counts[min(int(x*nb), nb-1)]++
@@ -32,13 +32,16 @@ func TestMichelSpectrum(t *testing.T) {
 	g := func(x float64) float64 { return 2*x*x*x - x*x*x*x }
 	x0 := phys.ElectronMass / MichelEndpoint
 	norm := 1 - g(x0)
-	var chi2 float64
-	for j := range counts {
+	want := make([]float64, nb)
+	for j := range want {
 		lo := math.Max(float64(j)/nb, x0)
-		want := n * (g(float64(j+1)/nb) - g(lo)) / norm
-		chi2 += (counts[j] - want) * (counts[j] - want) / want
+		want[j] = n * (g(float64(j+1)/nb) - g(lo)) / norm
 	}
-	if crit := chiSquareCritical(nb - 1); chi2 > crit {
+	chi2, dof, err := resolution.ChiSquare(counts, want, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if crit := resolution.ChiSquareCritical(dof, 1e-4); chi2 > crit {
 		t.Errorf("Michel chi2 = %.1f above %.1f", chi2, crit)
 	}
 }
@@ -51,8 +54,8 @@ func TestBoostedDecayInvariant(t *testing.T) {
 	for _, ekin := range []float64{10, 300, 5000} {
 		k := p.Kinematics(ekin)
 		dir := r3.Vector{X: 0.6, Y: 0, Z: 0.8}
-		eLab, dLab := MichelElectron(k, dir, newRNG(23, 24))
-		eRest, _ := MichelElectron(p.Kinematics(0), dir, newRNG(23, 24))
+		eLab, dLab := MichelElectron(k, dir, phystest.NewRNG(23, 24))
+		eRest, _ := MichelElectron(p.Kinematics(0), dir, phystest.NewRNG(23, 24))
 		const me = phys.ElectronMass
 		etot := eLab + me
 		pLab := math.Sqrt(etot*etot - me*me)
@@ -85,14 +88,14 @@ func TestDecayAtRest(t *testing.T) {
 		tau  float64
 		ePDG int
 	}{{phys.MuonPlus, phys.MuonLifetime, phys.Positron}, {phys.MuonMinus, OxygenLifetime, phys.Electron}} {
-		rng := newRNG(25, uint64(c.pdg+100))
+		rng := phystest.NewRNG(25, uint64(c.pdg+100))
 		var sum float64
 		var captured int
 		var sink countSink
 		for i := 0; i < n; i++ {
 			part := muonAlongZ(c.pdg, 0)
 			part.Time = 7
-			tr, err := p.Track(part, ball{10}, rng, &sink)
+			tr, err := p.Track(part, ball{R: 10}, rng, &sink)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -114,8 +117,8 @@ func TestDecayAtRest(t *testing.T) {
 				t.Fatalf("muon at rest moved: %+v", tr)
 			}
 		}
-		if sink.segments != 0 || sink.deposits != 0 {
-			t.Errorf("muon at rest reported %d segments, %d deposits", sink.segments, sink.deposits)
+		if sink.Segments != 0 || sink.Deposits != 0 {
+			t.Errorf("muon at rest reported %d segments, %d deposits", sink.Segments, sink.Deposits)
 		}
 		if mean := sum / n; math.Abs(mean-c.tau) > 5*c.tau/math.Sqrt(n) {
 			t.Errorf("PDG %d: mean decay time %.1f ns, want %.1f", c.pdg, mean, c.tau)
@@ -136,7 +139,7 @@ func TestDecayInFlightElectron(t *testing.T) {
 	// momentum averages to zero along the boost); standard error from the
 	// sample. The decay length of the transport is checked in sim/heavy.
 	p := newWater(t, Config{})
-	rng := newRNG(27, 28)
+	rng := phystest.NewRNG(27, 28)
 	const n = 4000
 	k := p.Kinematics(1000)
 	energies := make([]float64, n)
@@ -154,10 +157,10 @@ func TestDecayInFlight(t *testing.T) {
 	// Muons of 300 MeV decaying in flight in a large sphere: the decay
 	// product is an electron (mu-) at the end point and time of the track.
 	p := newWater(t, Config{})
-	rng := newRNG(29, 30)
+	rng := phystest.NewRNG(29, 30)
 	var seen int
 	for i := 0; i < 3000 && seen < 5; i++ {
-		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 300), ball{1e4}, rng, &countSink{})
+		tr, err := p.Track(muonAlongZ(phys.MuonMinus, 300), ball{R: 1e4}, rng, &countSink{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -172,8 +175,4 @@ func TestDecayInFlight(t *testing.T) {
 	if seen == 0 {
 		t.Error("no decay in flight among 3000 muons of 300 MeV")
 	}
-}
-
-func chiSquareCritical(dof int) float64 {
-	return distuv.ChiSquared{K: float64(dof)}.Quantile(1 - 1e-4)
 }

@@ -6,12 +6,13 @@ import (
 	"testing"
 
 	"github.com/conelight/conelight/sim/phys"
+	"github.com/conelight/conelight/sim/phys/phystest"
 )
 
 func TestDeterministic(t *testing.T) {
 	p := newWater(t, Config{})
-	a, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{1e4}, newRNG(1, 1), &countSink{})
-	b, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{1e4}, newRNG(1, 1), &countSink{})
+	a, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{R: 1e4}, phystest.NewRNG(1, 1), &countSink{})
+	b, _ := p.Track(muonAlongZ(phys.MuonMinus, 500), ball{R: 1e4}, phystest.NewRNG(1, 1), &countSink{})
 	if a != b {
 		t.Errorf("same seed, different truth:\n%+v\n%+v", a, b)
 	}
@@ -28,7 +29,7 @@ func TestBadInput(t *testing.T) {
 		{func() phys.Particle { q := good; q.PDG = 11; return q }(), "muon: Particle.PDG = 11"},
 		{func() phys.Particle { q := good; q.Ekin = math.NaN(); return q }(), "muon: Particle.Ekin = NaN"},
 	} {
-		_, err := p.Track(c.part, ball{10}, newRNG(1, 2), &countSink{})
+		_, err := p.Track(c.part, ball{R: 10}, phystest.NewRNG(1, 2), &countSink{})
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("Track(%+v): error %v, want it to mention %q", c.part, err, c.want)
 		}

@@ -23,13 +23,24 @@ const (
 	// DecayedInFlight (5): it decayed before stopping.
 	DecayedInFlight
 	// Interacted (6): it ended in an interaction that absorbed it (photon
-	// conversion or photoabsorption, a hadronic interaction).
+	// conversion or photoabsorption, a hadronic interaction); what left
+	// the interaction is new tracks.
 	Interacted
+	// Captured (7): a neutron captured by a nucleus (in flight or
+	// thermal), its capture gammas new tracks.
+	Captured
+	// Absorbed (8): a pion absorbed in flight by a nucleus (no pion
+	// leaves; the nucleons are new tracks).
+	Absorbed
+	// NotFollowed (9): no transport code follows this particle (or it
+	// outlived the transport's time limit); it is counted in the truth
+	// and its energy gives no light.
+	NotFollowed
 
 	numFates // one past the last known fate
 )
 
-var fateNames = [numFates]string{"none", "exited", "stopped", "stopped-decayed", "stopped-captured", "decayed-in-flight", "interacted"}
+var fateNames = [numFates]string{"none", "exited", "stopped", "stopped-decayed", "stopped-captured", "decayed-in-flight", "interacted", "captured", "absorbed", "not-followed"}
 
 // String returns the fate's name.
 func (f Fate) String() string {

@@ -1,7 +1,9 @@
 package setup
 
 import (
+	"embed"
 	"fmt"
+	"strings"
 
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
@@ -94,37 +96,43 @@ func (s *Setup) CheckTrigger() error {
 	return nil
 }
 
-// Demo returns the demo tank (geom.DemoTank) lined at 30% photocathode
-// coverage with the medium sensor class, pure water at 20 C, the default
-// liner and trigger: an invented scenario for examples and tests.
-func Demo() (Setup, error) {
-	return pureWater("demo", geom.DemoTank(), pmt.Medium(), 0.30, DefaultTrigger())
+// Demo returns the demo tank, read from the embedded description
+// builtin/demo.toml: geom.DemoTank lined at 30% photocathode coverage with
+// the medium sensor class, pure water at 20 C, the default liner and
+// trigger. An invented scenario for examples and tests.
+func Demo() (Setup, error) { return Builtin("demo") }
+
+// Large returns the large reference tank, read from the embedded
+// description builtin/large.toml: geom.LargeTank lined at 40% photocathode
+// coverage with the large sensor class (about 11,000 sensors), pure water
+// at 20 C, the default liner, and the default trigger raised to 25 hits:
+// 11,000 sensors at 4 kHz give about 9 dark hits in the 200 ns window, so
+// 10 hits would fire on noise. An invented scenario for studies and
+// benchmarks.
+func Large() (Setup, error) { return Builtin("large") }
+
+//go:embed builtin/*.toml
+var builtin embed.FS
+
+// BuiltinNames returns the names Builtin accepts.
+func BuiltinNames() []string {
+	ents, _ := builtin.ReadDir("builtin")
+	var names []string
+	for _, e := range ents {
+		names = append(names, strings.TrimSuffix(e.Name(), ".toml"))
+	}
+	return names
 }
 
-// Large returns the large reference tank (geom.LargeTank) lined at 40%
-// photocathode coverage with the large sensor class (about 11,000
-// sensors), pure water at 20 C, the default liner, and the default
-// trigger raised to 25 hits: 11,000 sensors at 4 kHz give about 9 dark
-// hits in the 200 ns window, so 10 hits would fire on noise. An invented
-// scenario for studies and benchmarks.
-func Large() (Setup, error) {
-	trig := DefaultTrigger()
-	trig.Threshold = 25
-	return pureWater("large", geom.LargeTank(), pmt.Large(), 0.40, trig)
-}
-
-// pureWater lines tank at the given coverage with sensors of model m and
-// fills it with pure water at 20 C behind the default liner.
-func pureWater(name string, tank geom.Tank, m pmt.Model, coverage float64, trig pmt.Trigger) (Setup, error) {
-	det, err := geom.Layout(tank, m.CathodeDiameter, coverage)
+// Builtin returns the embedded description called name ("demo",
+// "large"), read by the same parser as a user's file.
+func Builtin(name string) (Setup, error) {
+	path := "builtin/" + name + ".toml"
+	data, err := builtin.ReadFile(path)
 	if err != nil {
-		return Setup{}, err
+		return Setup{}, fmt.Errorf("setup: no built-in description %q (built-in: %s)", name, strings.Join(BuiltinNames(), ", "))
 	}
-	s := Setup{Name: name, Detector: det, Sensor: m, Liner: optics.DefaultLiner(), Trigger: trig}
-	if err := s.Check(); err != nil {
-		return Setup{}, err
-	}
-	return s, nil
+	return parse(data, path, options{maxSensors: MaxSensors})
 }
 
 // ReadoutWindow returns the length (ns) of the readout window around a

@@ -8,19 +8,25 @@ import (
 	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/sim/em"
+	"github.com/conelight/conelight/sim/hadron"
 	"github.com/conelight/conelight/sim/material"
 	"github.com/conelight/conelight/sim/muon"
+	"github.com/conelight/conelight/sim/neutron"
 	"github.com/conelight/conelight/sim/phys"
 )
 
-// Physics holds the process tables of both transport codes for one medium.
+// Physics holds the process tables of the transport codes for one medium.
 type Physics struct {
-	EM   *em.Physics
-	Muon *muon.Physics
+	EM      *em.Physics
+	Muon    *muon.Physics
+	Hadron  *hadron.Physics
+	Neutron *neutron.Physics
 }
 
-// New builds the tables for medium m with the given settings of the two
-// transport codes.
+// New builds the tables for medium m with the given settings of the
+// electromagnetic and muon codes; charged pions and protons take the muon
+// settings (the heavy-particle transport they share), neutrons the
+// defaults of neutron.Config (pure water at 20 C; see WithNeutron).
 func New(m material.Medium, emCfg em.Config, muCfg muon.Config) (*Physics, error) {
 	e, err := em.New(m, emCfg)
 	if err != nil {
@@ -30,7 +36,27 @@ func New(m material.Medium, emCfg em.Config, muCfg muon.Config) (*Physics, error
 	if err != nil {
 		return nil, err
 	}
-	return &Physics{EM: e, Muon: mu}, nil
+	had, err := hadron.New(m, muCfg)
+	if err != nil {
+		return nil, err
+	}
+	n, err := neutron.New(m, had, neutron.Config{})
+	if err != nil {
+		return nil, err
+	}
+	return &Physics{EM: e, Muon: mu, Hadron: had, Neutron: n}, nil
+}
+
+// WithNeutron returns a copy of p whose neutrons follow cfg (water
+// temperature, gadolinium loading) in medium m.
+func (p *Physics) WithNeutron(m material.Medium, cfg neutron.Config) (*Physics, error) {
+	n, err := neutron.New(m, p.Hadron, cfg)
+	if err != nil {
+		return nil, err
+	}
+	q := *p
+	q.Neutron = n
+	return &q, nil
 }
 
 // Primary is the truth about one primary particle and its descendants.
@@ -53,15 +79,20 @@ type Primary struct {
 	Segments int
 	// Descendants counts the secondaries of every generation.
 	Descendants int
-	// MuonFate is how a muon primary ended (0 for other particles).
-	MuonFate phys.Fate
-	// DecayTime is the time (ns) at which a muon primary decayed or was
-	// captured; 0 when it did neither.
+	// Fate is how a muon, pion, proton or neutron primary ended, or
+	// NotFollowed for a particle no code follows (0 for electrons,
+	// positrons and photons, whose fate the caller derives).
+	Fate phys.Fate
+	// DecayTime is the time (ns) at which a muon or pion primary decayed
+	// or was captured, or a neutron primary was captured; 0 when it did
+	// neither.
 	DecayTime float64
 	// Decay is a muon primary's decay electron or positron (PDG 0 when
 	// there is none).
 	Decay phys.Particle
-	// Skipped is true when no transport code follows this particle kind.
+	// Skipped is true when no transport code follows this particle kind
+	// (neutrinos); it is counted (Tracker.Skipped) and has fate
+	// NotFollowed.
 	Skipped bool
 }
 
@@ -81,7 +112,7 @@ type Tracker struct {
 
 // NewTracker returns a tracker using p.
 func NewTracker(p *Physics) (*Tracker, error) {
-	if p == nil || p.EM == nil || p.Muon == nil {
+	if p == nil || p.EM == nil || p.Muon == nil || p.Hadron == nil || p.Neutron == nil {
 		return nil, errors.New("transport: Physics is nil or incomplete")
 	}
 	t := &Tracker{phys: p}
@@ -117,7 +148,7 @@ func (r *relay) Segment(s phys.Segment) {
 	p := int(t.primaryOf[s.Track])
 	t.prims[p].Segments++
 	if s.Track == p+1 { // the primary's own track (primaries are tracks 1..n)
-		if s.PDG != phys.MuonMinus && s.PDG != phys.MuonPlus {
+		if s.PDG == phys.Electron || s.PDG == phys.Positron {
 			t.prims[p].TrackLength += s.Length()
 			t.end[p] = s.End
 		}
@@ -177,7 +208,7 @@ func (t *Tracker) Run(primaries []phys.Particle, vol phys.Volume, rng *rand.Rand
 	}
 	for i := range t.prims {
 		pr := &t.prims[i]
-		if pr.MuonFate == 0 && !pr.Skipped {
+		if pr.Fate == 0 {
 			pr.End = t.end[i]
 			pr.Range = t.end[i].Sub(pr.Particle.Pos).Norm()
 		}
@@ -187,6 +218,10 @@ func (t *Tracker) Run(primaries []phys.Particle, vol phys.Volume, rng *rand.Rand
 
 // follow transports one particle with the code for its kind.
 func (t *Tracker) follow(p phys.Particle, primary bool, vol phys.Volume, rng *rand.Rand) error {
+	var pr *Primary
+	if primary {
+		pr = &t.prims[p.Track-1]
+	}
 	switch p.PDG {
 	case phys.Electron, phys.Positron, phys.Gamma:
 		return t.phys.EM.Track(p, vol, rng, &t.relay)
@@ -195,19 +230,58 @@ func (t *Tracker) follow(p phys.Particle, primary bool, vol phys.Volume, rng *ra
 		if err != nil {
 			return err
 		}
-		if primary {
-			pr := &t.prims[p.Track-1]
+		if pr != nil {
 			pr.TrackLength, pr.Range, pr.End = tr.TrackLength, tr.Range, tr.EndPos
-			pr.MuonFate, pr.DecayTime, pr.Decay = tr.Fate, tr.DecayTime, tr.Decay
+			pr.Fate, pr.DecayTime, pr.Decay = tr.Fate, tr.DecayTime, tr.Decay
+		}
+		return nil
+	case phys.PionPlusCode, phys.PionMinusCode, phys.ProtonCode:
+		var tr hadron.Truth
+		var err error
+		if p.PDG == phys.ProtonCode {
+			tr, err = t.phys.Hadron.TrackProton(p, vol, rng, &t.relay)
+		} else {
+			tr, err = t.phys.Hadron.TrackPion(p, vol, rng, &t.relay)
+		}
+		if err != nil {
+			return err
+		}
+		if pr != nil {
+			pr.TrackLength, pr.Range, pr.End = tr.TrackLength, tr.Range, tr.EndPos
+			pr.Fate, pr.DecayTime = tr.Fate, tr.DecayTime
+		}
+		return nil
+	case phys.NeutralPionCode:
+		hadron.DecayPiZero(p, rng, &t.relay)
+		if pr != nil {
+			pr.End, pr.Fate, pr.DecayTime = p.Pos, phys.DecayedInFlight, p.Time
+			if p.Ekin == 0 {
+				pr.Fate = phys.StoppedDecayed
+			}
+		}
+		return nil
+	case phys.NeutronCode:
+		tr, err := t.phys.Neutron.Track(p, vol, rng, &t.relay)
+		if err != nil {
+			return err
+		}
+		if pr != nil {
+			pr.TrackLength, pr.End = tr.TrackLength, tr.EndPos
+			pr.Range = tr.EndPos.Sub(p.Pos).Norm()
+			pr.Fate = tr.Fate
+			if tr.Fate == phys.Captured {
+				pr.DecayTime = tr.EndTime
+			}
 		}
 		return nil
 	}
 	if _, err := phys.Lookup(p.PDG); err != nil {
 		return err
 	}
+	// Known but followed by no code: neutrinos. Counted, never silent.
 	t.skipped++
-	if primary {
-		t.prims[p.Track-1].Skipped = true
+	if pr != nil {
+		pr.Skipped, pr.Fate, pr.End = true, phys.NotFollowed, p.Pos
 	}
 	return nil
 }

@@ -94,8 +94,8 @@ func TestTrackBookkeeping(t *testing.T) {
 	}
 	// The 300 MeV mu+ stops in the tank and decays (PDG: mu+ always
 	// decays); its positron is among its descendants.
-	if out[1].MuonFate != phys.StoppedDecayed || out[1].Decay.PDG != phys.Positron {
-		t.Errorf("mu+ fate %v, decay %+v", out[1].MuonFate, out[1].Decay)
+	if out[1].Fate != phys.StoppedDecayed || out[1].Decay.PDG != phys.Positron {
+		t.Errorf("mu+ fate %v, decay %+v", out[1].Fate, out[1].Decay)
 	}
 	if out[0].TrackLength <= 0 || out[0].Range <= 0 || out[0].Range > out[0].TrackLength+1e-9 {
 		t.Errorf("electron track length %g, range %g", out[0].TrackLength, out[0].Range)
@@ -346,6 +346,51 @@ func TestMuonLightStepAndCutIndependence(t *testing.T) {
 		m, s := light(c.cfg, 2)
 		if d := math.Abs(m/m0 - 1); d > c.tol+4*math.Hypot(s/m, s0/m0) {
 			t.Errorf("%s: light %.0f +- %.0f, default %.0f +- %.0f (%.2f%%)", c.name, m, s, m0, s0, 100*(m/m0-1))
+		}
+	}
+}
+
+func TestDecayChains(t *testing.T) {
+	// The stack follows what the hadron and neutron codes make: a pi+ at
+	// rest gives a mu+ (4.12 MeV) that stops and gives a positron; a pi0
+	// gives two photons (or a Dalitz pair and a photon) that shower; a
+	// thermal neutron is captured and its 2.2 MeV gamma (or 4.1 MeV on
+	// oxygen) is followed. Fates and descendants of the primaries.
+	tr, err := NewTracker(newPhysics(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	vol := geom.DemoTank()
+	up := r3.Vector{Z: 1}
+	rng := rand.New(rand.NewPCG(71, 72))
+	for _, c := range []struct {
+		p     phys.Particle
+		fate  phys.Fate
+		codes []int // codes that must appear among the descendants
+	}{
+		{phys.Particle{PDG: phys.PionPlusCode, Dir: up}, phys.StoppedDecayed, []int{phys.MuonPlus, phys.Positron}},
+		{phys.Particle{PDG: phys.NeutralPionCode, Dir: up, Ekin: 100}, phys.DecayedInFlight, []int{phys.Gamma, phys.Electron}},
+		{phys.Particle{PDG: phys.NeutronCode, Dir: up, Ekin: 0}, phys.Captured, []int{phys.Gamma, phys.Electron}},
+	} {
+		var rec recorder
+		out, err := tr.Run([]phys.Particle{c.p}, vol, rng, &rec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if out[0].Fate != c.fate {
+			t.Errorf("PDG %d: fate %v, want %v", c.p.PDG, out[0].Fate, c.fate)
+		}
+		seen := map[int]bool{}
+		for _, s := range rec.secs {
+			seen[s.PDG] = true
+		}
+		for _, code := range c.codes {
+			if !seen[code] {
+				t.Errorf("PDG %d: no descendant of PDG %d among %d", c.p.PDG, code, len(rec.secs))
+			}
+		}
+		if out[0].Descendants != len(rec.secs) {
+			t.Errorf("PDG %d: %d descendants counted, %d reported", c.p.PDG, out[0].Descendants, len(rec.secs))
 		}
 	}
 }

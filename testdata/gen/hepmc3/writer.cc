@@ -3,7 +3,7 @@
 // reader in sim/gen is checked against files it did not write. See
 // README.md beside this file; regen.sh builds and runs it.
 //
-// Four invented neutrino events are defined once, in GeV and mm. They are
+// Five invented neutrino events are defined once, in GeV and mm. They are
 // written in HepMC3's own format (Asciiv3) following three generations of
 // the NuHepMC conventions, and in the HepMC2 format (IO_GenEvent) with
 // HepMC3's HepMC2 writer, in GeV/mm and (converted by the library with
@@ -47,9 +47,10 @@ struct Vtx {
 struct Ev {
     int number, process;
     double weight;
-    std::vector<double> lab; // x y z (mm) [t (s)]
+    std::vector<double> lab; // x y z (mm) [t (s)]; empty: none
     std::vector<Vtx> verts;
     std::vector<Part> parts;
+    std::vector<double> shift; // x y z ct (mm) of GenEvent::shift_position_by; empty: none
 };
 
 double etot(const Part& p) { return std::sqrt(p.px * p.px + p.py * p.py + p.pz * p.pz + p.m * p.m); }
@@ -99,6 +100,17 @@ std::vector<Ev> events() {
                       {1000080160, 11, 0, 0, 0, mO16, -1, 0},
                       {14, 1, 0.1, 0.05, 0.45, 0, 0, -1},
                       {1000070150, 1, -0.1, -0.05, 0.15, mN15, 0, -1}}});
+    // 105: nu_e elastic scattering off an atomic electron, no target
+    // written and no lab position; the vertex has no position of its own
+    // and one incoming particle (Asciiv3 writes it implicitly), and the
+    // event is shifted (GenEvent::shift_position_by): its particles start
+    // at the event position.
+    evs.push_back(Ev{105, 700, 2.0, {},
+                     {{0, false, 0, 0, 0, 0}},
+                     {{12, 4, 0, 0, 0.02, 0, -1, 0},
+                      {11, 1, 0.003, 0.001, 0.012, mE, 0, -1},
+                      {12, 1, -0.003, -0.001, 0.008, 0, 0, -1}},
+                     {30, -40, 50, 0.6}});
     return evs;
 }
 
@@ -119,6 +131,20 @@ std::shared_ptr<GenRunInfo> runInfo(Convention c) {
     run->add_attribute("NuHepMC.Version.Patch", std::make_shared<IntAttribute>(0));
     run->add_attribute("NuHepMC.ProcessIDs", std::make_shared<StringAttribute>("200 201 250 400"));
     return run;
+}
+
+// labIn returns the lab_pos attribute text, positions multiplied by
+// scale: 0.1 for cm, the event's length unit after set_units(MEV, CM)
+// (attributes are not converted by the library).
+std::shared_ptr<StringAttribute> labIn(const Ev& e, double scale) {
+    std::string lab;
+    char buf[64];
+    for (size_t i = 0; i < e.lab.size(); i++) {
+        double v = i < 3 ? e.lab[i] * scale : e.lab[i];
+        std::snprintf(buf, sizeof buf, "%s%.17g", i ? " " : "", v);
+        lab += buf;
+    }
+    return std::make_shared<StringAttribute>(lab);
 }
 
 // build makes the HepMC3 event of e in GeV/mm.
@@ -145,28 +171,16 @@ std::shared_ptr<GenEvent> build(const Ev& e, Convention c, std::shared_ptr<GenRu
     for (auto& v : vs) evt->add_vertex(v);
     std::string procName = c == pre09 ? "ProcID" : "signal_process_id";
     evt->add_attribute(procName, std::make_shared<IntAttribute>(e.process));
-    std::string labName = c == v10 ? "lab_pos" : "LabPos";
-    std::string lab;
-    char buf[64];
-    for (size_t i = 0; i < e.lab.size(); i++) {
-        std::snprintf(buf, sizeof buf, "%s%.17g", i ? " " : "", e.lab[i]);
-        lab += buf;
-    }
-    evt->add_attribute(labName, std::make_shared<StringAttribute>(lab));
+    if (!e.lab.empty()) evt->add_attribute(c == v10 ? "lab_pos" : "LabPos", labIn(e, 1));
     return evt;
 }
 
-// labIn returns the lab_pos attribute text in cm (the event's length unit
-// after set_units(MEV, CM); attributes are not converted by the library).
-std::shared_ptr<StringAttribute> labIn(const Ev& e, double scale) {
-    std::string lab;
-    char buf[64];
-    for (size_t i = 0; i < e.lab.size(); i++) {
-        double v = i < 3 ? e.lab[i] * scale : e.lab[i];
-        std::snprintf(buf, sizeof buf, "%s%.17g", i ? " " : "", v);
-        lab += buf;
-    }
-    return std::make_shared<StringAttribute>(lab);
+// shift applies the event's shift_position_by in the event's length unit
+// (scale 0.1 for cm). It comes after set_units: GenEvent::set_units of
+// HepMC3 3.1.2 does not convert the event position.
+void shift(GenEvent& evt, const Ev& e, double scale) {
+    if (!e.shift.empty())
+        evt.shift_position_by(FourVector(e.shift[0] * scale, e.shift[1] * scale, e.shift[2] * scale, e.shift[3] * scale));
 }
 
 void writeV3(const std::string& path, Convention c, bool mevcm) {
@@ -176,8 +190,9 @@ void writeV3(const std::string& path, Convention c, bool mevcm) {
         auto evt = build(e, c, run);
         if (mevcm) {
             evt->set_units(Units::MEV, Units::CM);
-            evt->add_attribute(c == v10 ? "lab_pos" : "LabPos", labIn(e, 0.1));
+            if (!e.lab.empty()) evt->add_attribute(c == v10 ? "lab_pos" : "LabPos", labIn(e, 0.1));
         }
+        shift(*evt, e, mevcm ? 0.1 : 1);
         w.write_event(*evt);
     }
     w.close();
@@ -196,6 +211,7 @@ void writeV2(const std::string& path, bool mevcm, bool withRunInfo) {
             evt->weights().clear();
         }
         if (mevcm) evt->set_units(Units::MEV, Units::CM);
+        shift(*evt, e, mevcm ? 0.1 : 1);
         w.write_event(*evt);
     }
     w.close();
@@ -213,6 +229,8 @@ void writeJSON(const std::string& path) {
         const Ev& e = evs[i];
         std::fprintf(f, "    {\"number\": %d, \"process\": %d, \"weight\": %.17g, \"lab\": [", e.number, e.process, e.weight);
         for (size_t k = 0; k < e.lab.size(); k++) std::fprintf(f, "%s%.17g", k ? ", " : "", e.lab[k]);
+        std::fprintf(f, "], \"shift\": [");
+        for (size_t k = 0; k < e.shift.size(); k++) std::fprintf(f, "%s%.17g", k ? ", " : "", e.shift[k]);
         std::fprintf(f, "],\n     \"vertices\": [");
         for (size_t k = 0; k < e.verts.size(); k++) {
             const Vtx& v = e.verts[k];

@@ -1,115 +1,13 @@
 package ring
 
 import (
-	"errors"
 	"fmt"
 	"math"
 
-	"github.com/golang/geo/r3"
-
+	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/ring/internal/profile"
-	"github.com/conelight/conelight/geom"
-	"github.com/conelight/conelight/pmt"
-	"github.com/conelight/conelight/sim/optics"
 	"github.com/conelight/conelight/sim/phys"
 )
-
-// Hypothesis is a particle hypothesis of a single-ring fit.
-type Hypothesis int
-
-// The two hypotheses.
-const (
-	Electron Hypothesis = iota // e-like: a showering electron (or photon-like shower)
-	Muon                       // mu-like: a muon track
-)
-
-// PDG returns the PDG code of the hypothesis (11 or 13).
-func (h Hypothesis) PDG() int {
-	if h == Muon {
-		return phys.MuonMinus
-	}
-	return phys.Electron
-}
-
-// Mass returns the particle mass (MeV).
-func (h Hypothesis) Mass() float64 {
-	if h == Muon {
-		return phys.MuonMass
-	}
-	return phys.ElectronMass
-}
-
-func (h Hypothesis) String() string {
-	switch h {
-	case Electron:
-		return "electron"
-	case Muon:
-		return "muon"
-	}
-	return fmt.Sprintf("Hypothesis(%d)", int(h))
-}
-
-// Track is a single-track hypothesis: start point (cm), start time (ns),
-// unit direction and kinetic energy (MeV).
-type Track struct {
-	Vertex r3.Vector
-	Time   float64
-	Dir    r3.Vector
-	Ekin   float64
-}
-
-// Config describes the detector a Fitter reconstructs events of.
-type Config struct {
-	// Detector is the tank and its sensors.
-	Detector *geom.Detector
-	// Sensor is the response of every sensor.
-	Sensor pmt.Model
-	// Water is the water's optics; nil means optics.DefaultWaterConfig().
-	Water *optics.Water
-	// Liner is the wall between the sensors; its reflectivity sets the
-	// reflected-light term.
-	Liner optics.Liner
-	// Dead lists sensors to leave out of the likelihood (dead, masked or
-	// known bad); their hits are ignored.
-	Dead []int
-	// SkipUncertainties leaves out the Hessian and the Cramer-Rao bound,
-	// which cost about as much as the fit itself.
-	SkipUncertainties bool
-	// MaxEvaluations bounds the likelihood evaluations of one hypothesis
-	// fit; 0 means 3000.
-	MaxEvaluations int
-}
-
-// Fitter reconstructs single-ring events in one detector. It is immutable
-// after New and safe for concurrent use; each goroutine needs its own
-// Workspace.
-type Fitter struct {
-	cfg    Config
-	det    *geom.Detector
-	tab    *tableSet
-	resp   *response
-	charge *chargeTable
-
-	n                      int
-	px, py, pz, nx, ny, nz []float64
-	dead                   []bool
-	live                   int
-
-	cathodeArea  float64 // cm^2
-	tts          float64 // ns
-	darkGate     float64 // mean dark pe in one integration gate
-	darkRate     float64 // per ns
-	reflected    float64 // reflected-light fraction of the direct light
-	lateTau      float64 // ns, decay constant of the indirect-light delay
-	trackSigma   [2]float64
-	maxEval      int
-	tankRadius   float64
-	tankHalfZ    float64
-	energyLo     [2]float64
-	energyHi     [2]float64
-	tanCherenkov float64
-	farDistance  float64 // farDistance, a field so that tests can move it
-}
 
 // electronTimeSigma and muonTimeSigma are the spread (ns) of the emission time about the
 // tabulated mean at the cone point: the lateral and longitudinal spread of
@@ -119,129 +17,6 @@ const (
 	electronTimeSigma = 0.7
 	muonTimeSigma     = 0.3
 )
-
-// New checks cfg and builds the response tables of the detector.
-func New(cfg Config) (*Fitter, error) {
-	if cfg.Detector == nil {
-		return nil, errors.New("ring: Config.Detector is nil")
-	}
-	if cfg.Detector.NumSensors() == 0 {
-		return nil, errors.New("ring: Config.Detector has no sensors")
-	}
-	if err := cfg.Sensor.Validate(); err != nil {
-		return nil, fmt.Errorf("ring: Config.Sensor: %w", err)
-	}
-	if cfg.Water == nil {
-		w, err := optics.NewWater(optics.DefaultWaterConfig())
-		if err != nil {
-			return nil, err
-		}
-		cfg.Water = w
-	}
-	if err := cfg.Liner.Validate(); err != nil {
-		return nil, fmt.Errorf("ring: Config.Liner: %w", err)
-	}
-	if cfg.MaxEvaluations < 0 {
-		return nil, fmt.Errorf("ring: Config.MaxEvaluations = %d must not be negative", cfg.MaxEvaluations)
-	}
-	ts, err := tables()
-	if err != nil {
-		return nil, err
-	}
-	det := cfg.Detector
-	t := det.Tank()
-	r := t.Radius - t.SensorOffset
-	h := t.Height/2 - t.SensorOffset
-	maxR := 2.1 * math.Hypot(r, h)
-	resp, err := newResponse(cfg.Water, &cfg.Sensor, ts.bandLo, ts.bandHi, maxR)
-	if err != nil {
-		return nil, err
-	}
-	ct, err := newChargeTable(&cfg.Sensor, modelSigma)
-	if err != nil {
-		return nil, err
-	}
-	n := det.NumSensors()
-	f := &Fitter{cfg: cfg, det: det, tab: ts, resp: resp, charge: ct, n: n,
-		px: make([]float64, n), py: make([]float64, n), pz: make([]float64, n),
-		nx: make([]float64, n), ny: make([]float64, n), nz: make([]float64, n),
-		dead: make([]bool, n)}
-	for i := 0; i < n; i++ {
-		s := det.Sensor(i)
-		f.px[i], f.py[i], f.pz[i] = s.Pos.X, s.Pos.Y, s.Pos.Z
-		f.nx[i], f.ny[i], f.nz[i] = s.Dir.X, s.Dir.Y, s.Dir.Z
-	}
-	for _, d := range cfg.Dead {
-		if d < 0 || d >= n {
-			return nil, fmt.Errorf("ring: Config.Dead has sensor %d outside [0, %d)", d, n)
-		}
-		f.dead[d] = true
-	}
-	for _, d := range f.dead {
-		if !d {
-			f.live++
-		}
-	}
-	if f.live == 0 {
-		return nil, errors.New("ring: Config.Dead masks every sensor")
-	}
-	m := cfg.Sensor
-	D := det.CathodeDiameter()
-	f.cathodeArea = math.Pi * D * D / 4
-	f.tts = m.TTS
-	f.darkRate = m.DarkRate * 1e-9
-	f.darkGate = math.Max(m.DarkRate*m.IntegrationWindow*1e-9, 1e-7)
-	f.reflected = cfg.Liner.Reflectivity * (1 - det.Coverage())
-	// Scattered light arrives later by a fraction of the crossing time.
-	f.lateTau = math.Max(0.5*r*resp.invGroup, 2)
-	f.trackSigma = [2]float64{electronTimeSigma, muonTimeSigma}
-	f.maxEval = cfg.MaxEvaluations
-	if f.maxEval == 0 {
-		f.maxEval = 3000
-	}
-	f.tankRadius, f.tankHalfZ = r, h
-	for k, st := range []*speciesTable{ts.electron, ts.muon} {
-		f.energyLo[k], f.energyHi[k] = st.energyRange()
-	}
-	f.tanCherenkov = math.Sqrt(resp.index*resp.index - 1)
-	f.farDistance = farDistance
-	return f, nil
-}
-
-// EnergyRange returns the kinetic energy range (MeV) of the emission
-// tables of hypothesis h: fits are confined to it.
-func (f *Fitter) EnergyRange(h Hypothesis) (lo, hi float64) {
-	return f.energyLo[h], f.energyHi[h]
-}
-
-func (f *Fitter) species(h Hypothesis) *speciesTable {
-	if h == Muon {
-		return f.tab.muon
-	}
-	return f.tab.electron
-}
-
-// Workspace is the per-goroutine scratch of a Fitter: the predicted
-// charges and times of every sensor and the event's hits in sensor order.
-// A Workspace is not safe for concurrent use.
-type Workspace struct {
-	f    *Fitter
-	prof profileAt
-	muD  []float64 // direct mean pe
-	muI  []float64 // indirect mean pe
-	tDir []float64 // predicted direct-light time, ns
-	sgT  []float64 // its spread, ns
-	// The event: first hit of each sensor (hitQ < 0 for none).
-	hitQ, hitT []float64
-	hits       []int // hit sensors
-	window     float64
-	evals      int
-	score      scoreScratch
-	grid       stepGrid
-	// allTimes makes predict fill the times of every sensor, not only
-	// of the hit ones (Predict and the Cramer-Rao bound).
-	allTimes bool
-}
 
 // farDistance is the distance from the vertex, in units of the light's
 // length inside the tank, beyond which the geometry of a sensor's direct
@@ -354,31 +129,20 @@ func (g *stepGrid) stepLight(km int, ca, ra float64, ja int, cb, rb float64, jb 
 	return g.frac[km] * gk * wsum
 }
 
-// NewWorkspace returns a scratch space for f.
-func (f *Fitter) NewWorkspace() *Workspace {
-	n := f.n
-	w := &Workspace{f: f, muD: make([]float64, n), muI: make([]float64, n),
-		tDir: make([]float64, n), sgT: make([]float64, n),
-		hitQ: make([]float64, n), hitT: make([]float64, n)}
-	for i := range w.hitQ {
-		w.hitQ[i] = -1
-	}
-	return w
-}
-
 // Predict fills mu with the predicted mean number of photoelectrons
 // (direct, scattered and reflected light, without dark noise) and t with
 // the predicted direct-light time (ns) at every sensor for hypothesis h
 // and track tr. mu and t must have Detector.NumSensors() elements; either
 // may be nil.
-func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
-	f := w.f
+func (f *Fitter) Predict(h Hypothesis, tr fit.Track, mu, t []float64) error {
 	if (mu != nil && len(mu) != f.n) || (t != nil && len(t) != f.n) {
 		return fmt.Errorf("ring: Predict: slices of length %d and %d, want %d", len(mu), len(t), f.n)
 	}
 	if err := f.checkTrack(h, tr); err != nil {
 		return err
 	}
+	w := f.workspace()
+	defer f.pool.Put(w)
 	tr.Dir = tr.Dir.Normalize()
 	w.allTimes = true
 	w.predict(h, tr)
@@ -390,33 +154,9 @@ func (w *Workspace) Predict(h Hypothesis, tr Track, mu, t []float64) error {
 	return nil
 }
 
-func (f *Fitter) checkTrack(h Hypothesis, tr Track) error {
-	if h != Electron && h != Muon {
-		return fmt.Errorf("ring: hypothesis %d unknown", int(h))
-	}
-	v := tr.Vertex
-	if !finite(v.X) || !finite(v.Y) || !finite(v.Z) || !finite(tr.Time) {
-		return fmt.Errorf("ring: Track vertex %v, time %g must be finite", v, tr.Time)
-	}
-	if f.det.DistanceToWall(v) < 0 {
-		return fmt.Errorf("ring: Track.Vertex %v lies outside the sensor surface", v)
-	}
-	d := tr.Dir.Norm()
-	if !finite(d) || d < 1e-6 {
-		return fmt.Errorf("ring: Track.Dir %v must be a finite non-zero vector", tr.Dir)
-	}
-	lo, hi := f.EnergyRange(h)
-	if !(tr.Ekin >= lo && tr.Ekin <= hi) {
-		return fmt.Errorf("ring: Track.Ekin = %g MeV outside the %v table range %g-%g MeV", tr.Ekin, h, lo, hi)
-	}
-	return nil
-}
-
-func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
-
 // predict computes muD, muI, tDir and sgT for a valid track (unit Dir,
 // energy in range, vertex inside). It does not allocate.
-func (w *Workspace) predict(h Hypothesis, tr Track) {
+func (w *workspace) predict(h Hypothesis, tr fit.Track) {
 	f := w.f
 	r := f.resp
 	p := &w.prof
