@@ -3,7 +3,6 @@ package main
 import (
 	"bufio"
 	"bytes"
-	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -11,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/sim/setup"
 )
@@ -137,27 +137,43 @@ func thousands(n int) string {
 
 // renderLowEnergyDemo renders the low-energy fitter's regression baseline.
 func renderLowEnergyDemo(root string) (string, error) {
-	data, err := os.ReadFile(filepath.Join(root, "testdata/fit/resolution_demo.json"))
+	b, err := resolution.LoadBaseline(filepath.Join(root, "testdata/fit/resolution_demo.json"))
 	if err != nil {
 		return "", err
 	}
-	var raw struct {
-		Seed     uint64           `json:"seed"`
-		Events   int              `json:"events_per_energy"`
-		Energies []map[string]any `json:"energies"`
+	if len(b.Points) == 0 {
+		return "", fmt.Errorf("testdata/fit/resolution_demo.json: no points")
 	}
-	if err := json.Unmarshal(data, &raw); err != nil {
-		return "", err
+	s0 := b.Points[0].Sample
+	var out strings.Builder
+	fmt.Fprintf(&out, "Demo tank, electrons 1 m or more inside the wall, isotropic, %d events per energy (run seed %d), errors are statistical (1 sigma); pull widths are Gaussian cores of (fit - truth) / reported error (1 when the errors are right):\n\n", s0.Events, s0.Seed)
+	out.WriteString("| E (MeV) | converged | vertex 68% (cm) | direction 68% (deg) | energy resolution (Gaussian core) | pull widths x, y, z, t | pull widths angles, energy | suspect | far (> 3 m), not suspect |\n| --- | --- | --- | --- | --- | --- | --- | --- | --- |\n")
+	for _, p := range b.Points {
+		fig := map[string]resolution.Figure{}
+		for _, f := range p.Figures {
+			fig[f.Name] = f
+		}
+		pm := func(name string, scale float64, format string) string {
+			f := fig[name]
+			return fmt.Sprintf(format+" ± "+format, scale*f.Value, scale*f.Err)
+		}
+		pulls := func(names ...string) string {
+			var parts []string
+			for _, n := range names {
+				parts = append(parts, fmt.Sprintf("%.2f", fig["pull_"+n].Value))
+			}
+			return strings.Join(parts, ", ")
+		}
+		frac := func(name string) string {
+			f := fig[name]
+			return fmt.Sprintf("%d/%d", f.K, f.N)
+		}
+		nc := fig["not_converged"]
+		fmt.Fprintf(&out, "| %g | %d/%d | %s | %s | %s%% | %s | %s | %s | %s |\n", p.Sample.Ekin, nc.N-nc.K, nc.N,
+			pm("vertex68", 1, "%.1f"), pm("direction68", 1, "%.1f"), pm("energy_resolution", 100, "%.1f"),
+			pulls("x", "y", "z", "time"), pulls("angle1", "angle2", "ekin"), frac("suspect"), frac("far_unflagged"))
 	}
-	var b strings.Builder
-	fmt.Fprintf(&b, "Demo tank, electrons 1 m or more inside the wall, isotropic, %d events per energy (run seed %d), errors are statistical (1 sigma):\n\n", raw.Events, raw.Seed)
-	b.WriteString("| E (MeV) | converged | vertex 68% (cm) | direction 68% (deg) | energy resolution (Gaussian core) |\n| --- | --- | --- | --- | --- |\n")
-	for _, e := range raw.Energies {
-		f := func(k string) float64 { v, _ := e[k].(float64); return v }
-		fmt.Fprintf(&b, "| %g | %d/%d | %.1f ± %.1f | %.1f ± %.1f | %.1f ± %.1f%% |\n", f("ekin_mev"), int(f("converged")), int(f("triggered")),
-			f("vertex68_cm"), f("vertex68_err_cm"), f("direction68_deg"), f("direction68_err_deg"), 100*f("energy_resolution"), 100*f("energy_resolution_err"))
-	}
-	return b.String(), nil
+	return out.String(), nil
 }
 
 // renderRingDemo renders the ring fitter's regression baseline: each 68%

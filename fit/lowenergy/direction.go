@@ -84,3 +84,26 @@ func (f *Fitter) fitDirection(sc *scratch, x candidate) (dir r3.Vector, angleErr
 	angleErr = [2]float64{math.Min(math.Sqrt(cov[0][0]), math.Pi), math.Min(math.Sqrt(cov[1][1]), math.Pi)}
 	return dir, angleErr, true, -best
 }
+
+// dirMoments returns the mean and variance of log p under p, the
+// tabulated direction density (with its dark part) over the cosine range
+// [-1, 1], from the log table of the event: the reference of
+// Result.DirGoodness.
+func dirMoments(t *logTable) (mean, variance float64) {
+	var m1, m2, norm float64
+	for i, lf := range t.lf {
+		u := t.lo + float64(i)*t.step
+		if u < -1 || u > 1 {
+			continue
+		}
+		p := math.Exp(lf) * t.step
+		norm += p
+		m1 += p * lf
+		m2 += p * lf * lf
+	}
+	if !(norm > 0) {
+		return 0, 0
+	}
+	m1 /= norm
+	return m1, math.Max(m2/norm-m1*m1, 0)
+}

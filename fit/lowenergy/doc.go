@@ -35,14 +35,44 @@
 // distances, so the likelihood has a long valley along the axis: the fit
 // scans that line and restarts from its best point.
 //
-// Uncertainties: the covariance is the inverse of the curvature of -log L
-// at the maximum (central differences of the analytic gradient). The
+// Uncertainties: the statistical covariance (Result.Cov) is the inverse
+// of the curvature of -log L at the maximum (central differences of the
+// analytic gradient). The per-hit likelihoods treat the hits as
+// independent, but all hits of an event share some deviations: the
+// electron's multiple scattering turns the light of the whole event
+// together, its track length varies, and the light of one bent track
+// differs from the all-track residual density alike for every hit. The
+// calibration records, per energy, the spread of each that the
+// statistical errors miss (CalibrationPoint.DirSpread, ShiftSpread,
+// VertexSpread: measured by the table generator as the spread in
+// quadrature that gives unit pull width on its own calibration sample),
+// and Fit adds them in quadrature at the fitted energy, and propagates
+// the shift to the track start (Shift times the angle errors across the
+// track). The generator logs beside DirSpread the multiple-scattering
+// spread of the light-weighted direction from the Highland formula as a
+// physical scale. The
 // Cramer-Rao bound of the vertex for the event's hits is the inverse of
 // the Fisher information I_f sum_i g_i g_i^T, with I_f the Fisher
 // information of the residual density's location and g_i the gradient of
 // residual i. A maximum whose curvature is not positive definite is no
 // proper maximum: the fit is then fit.NotConverged. Goodness is the
 // standardized log-likelihood.
+//
+// Failures. Selected hits no more than the dark noise of the live
+// sensors puts into a selection window with probability 1e-3 (Poisson,
+// times the number of windows in the hits' time span) are fit.NoEvent.
+// A fit is Suspect when a point at least 2 m away along the ring axis has
+// a log-likelihood within 4 of the maximum (Result.Ambiguity: the valley
+// along the axis has a second maximum, and such fits can land metres
+// from the truth), when its vertex uncertainty exceeds 1 m, or when the
+// margin is below 12 and the prompt hits fit the direction density better
+// than it expects by more than 2 standard deviations (Result.DirGoodness:
+// hits on a cone narrower than Cherenkov's, as seen from a vertex behind
+// the truth on the axis). Energies
+// outside the calibration are extrapolated and flagged
+// (Result.EkinOutside) with errors that grow with the distance to the
+// range. Two hits of one sensor within its integration gate are an error
+// (fit.CheckHits).
 //
 // Direction. The likelihood of the cosines between the track direction
 // and the vertex-to-hit vectors of the prompt hits (residual inside
@@ -72,16 +102,23 @@
 //
 // The densities and the calibration (Tables) come from the event
 // simulator and are embedded from data/*.txt: "demo" (demo tank, medium
-// sensors, 30% coverage) and "large" (large reference tank, large
-// sensors, 40%). New picks the set made for the tank closest in size. The
+// sensors, 30% coverage), "large" (large reference tank, large sensors,
+// 40%), and the built-in tanks lined with the other sensor classes
+// ("demo-small-30", "demo-large-30", "large-small-40",
+// "large-medium-40"). Each records what it depends on (Dependencies: sensor
+// timing and size, coverage, water) and its provenance (generator
+// version TablesVersion, seed, a hash of both). New picks the set whose
+// dependencies match the detector's within 5%, never by tank size; when
+// none does it uses the nearest and says so in Fitter.TablesWarning,
+// naming each mismatch and the command that makes matching tables
+// (GenerateCommand). The
 // residual table is intrinsic (sensors without transit-time spread,
 // Tables.TTS = 0); New convolves it with the sensor's TTS and sets the
-// dark level from the sensor's dark rate, so other sensors need no new
-// tables (the convolution treats the first of several photoelectrons on
+// dark level from the sensor's dark rate (the convolution treats the first of several photoelectrons on
 // a sensor like a single one, which makes multi-photoelectron hits appear
 // later and wider than they are). The direction table belongs to the
-// prompt window of the sensor it was made with. To regenerate (about a
-// minute on two cores):
+// prompt window of the sensor it was made with. To regenerate (about ten
+// minutes on two cores for the six sets):
 //
 //	go generate ./fit/lowenergy
 //

@@ -62,10 +62,11 @@ func (f *Fitter) effectiveHits(sc *scratch, x candidate) float64 {
 
 // energyFromNeff inverts the calibration (linear between its points,
 // extended linearly beyond the ends, not below 0) and returns the energy,
-// its uncertainty and the vertex shift at that energy. The uncertainty is
+// its uncertainty, the vertex shift at that energy and the calibration
+// interpolated there (Ekin, Shift, DirSpread, ShiftSpread set). The uncertainty is
 // interpolated between the calibration points' energy spreads,
 // Sigma / (dMean/dEkin) with the slope from central differences.
-func (f *Fitter) energyFromNeff(neff float64) (e, sigma, shift float64) {
+func (f *Fitter) energyFromNeff(neff float64) (e, sigma, shift float64, cp CalibrationPoint) {
 	cal := f.tables.Energy
 	k := 0
 	for k < len(cal)-2 && neff > cal[k+1].Mean {
@@ -79,7 +80,24 @@ func (f *Fitter) energyFromNeff(neff float64) (e, sigma, shift float64) {
 	}
 	w := math.Min(math.Max((e-a.Ekin)/(b.Ekin-a.Ekin), 0), 1)
 	sigma = f.energySigma[k] + w*(f.energySigma[k+1]-f.energySigma[k])
-	return e, sigma, a.Shift + w*(b.Shift-a.Shift)
+	// Outside the calibration the spread is not frozen at the end
+	// point's: the photon count's Poisson spread scales as sqrt(E), and
+	// the unknown shape of the calibration beyond its range adds the
+	// whole distance to it (a straight-line extrapolation may be off by
+	// as much as it extends).
+	if lo, hi := cal[0].Ekin, cal[len(cal)-1].Ekin; e > hi {
+		sigma = math.Hypot(f.energySigma[len(cal)-1]*math.Sqrt(e/hi), e-hi)
+	} else if e < lo {
+		sigma = math.Hypot(f.energySigma[0]*math.Sqrt(math.Max(e, 0)/lo), lo-e)
+	}
+	cp = CalibrationPoint{
+		Ekin:         e,
+		Shift:        a.Shift + w*(b.Shift-a.Shift),
+		DirSpread:    a.DirSpread + w*(b.DirSpread-a.DirSpread),
+		ShiftSpread:  a.ShiftSpread + w*(b.ShiftSpread-a.ShiftSpread),
+		VertexSpread: a.VertexSpread + w*(b.VertexSpread-a.VertexSpread),
+	}
+	return e, sigma, cp.Shift, cp
 }
 
 // energySpreads returns the energy spread at each calibration point: the

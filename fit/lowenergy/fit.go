@@ -5,10 +5,12 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/golang/geo/r3"
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/optimize"
 
 	"github.com/conelight/conelight/fit"
@@ -83,6 +85,9 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 		return failed(res, fit.NoHits, fmt.Sprintf("all %d hits are on dead sensors", len(hits))), nil
 	}
 	res.Selected = len(sc.sel)
+	if p, ok := f.darkOnly(sc); ok {
+		return failed(res, fit.NoEvent, fmt.Sprintf("%d hits in the selection window are consistent with dark noise alone (probability %.2g of as many in some window of the event's hits)", len(sc.sel), p)), nil
+	}
 	if len(sc.sel) < minHits {
 		return failed(res, fit.TooFewHits, fmt.Sprintf("%d hits in the selection window, need at least %d", len(sc.sel), minHits)), nil
 	}
@@ -110,6 +115,7 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 			x, status, reason = y, st, why
 		}
 	}
+	res.Ambiguity = f.ambiguity(sc, x)
 	// Uncertainties from the curvature of -log L at the maximum. Without
 	// a positive definite curvature the point is no proper maximum.
 	cov, ok := f.vertexCovariance(sc, x)
@@ -140,21 +146,39 @@ func (f *Fitter) Fit(hits []pmt.Hit) (Result, error) {
 	res.VertexCRB = f.cramerRao(sc, x, fisher)
 
 	res.DirLogLikelihood = dirLogL
+	if np := float64(len(sc.prompt)); np > 0 {
+		m, v := dirMoments(&sc.logDir)
+		res.DirGoodness = (dirLogL - np*m) / math.Sqrt(np*v)
+	}
 	res.Prompt = len(sc.prompt)
 	res.Neff = f.effectiveHits(sc, x)
-	tr.Ekin, res.Errors.Ekin, res.Shift = f.energyFromNeff(res.Neff)
+	var cp CalibrationPoint
+	tr.Ekin, res.Errors.Ekin, res.Shift, cp = f.energyFromNeff(res.Neff)
 	// The fitted point is the light-weighted centre of the track; move it
 	// back to the track start by the calibrated shift at this energy.
 	tr.Vertex = tr.Vertex.Sub(tr.Dir.Mul(res.Shift))
 	tr.Time -= res.Shift / phys.SpeedOfLight
+	res.AngleStat = angleErr
+	if ok {
+		res.Errors.Angle, res.Errors.Vertex, res.Errors.Time = f.shared(&res, cp)
+	}
 	res.Evaluations = sc.evals
 
 	if status == fit.Converged && !finiteResult(&res) {
 		status, reason = fit.NotConverged, "a fitted value or uncertainty is not finite"
 	}
+	if lo, hi := f.EkinRange(); tr.Ekin < lo || tr.Ekin > hi {
+		res.EkinOutside = true
+	}
+	res.Suspect = res.Ambiguity < suspectAmbiguity || !(res.Errors.Vertex.Norm() <= suspectVertexError) ||
+		(res.Ambiguity < narrowAmbiguity && res.DirGoodness > narrowDirGoodness)
 	res.ErrorsValid = ok && dirOK
 	if status == fit.Converged && !dirOK {
 		reason = "the curvature of the direction likelihood is not positive definite (too few prompt hits or a flat maximum): the angle errors are pi"
+	}
+	if status == fit.Converged && res.EkinOutside {
+		lo, hi := f.EkinRange()
+		reason = strings.TrimPrefix(reason+"; ", "; ") + fmt.Sprintf("the energy %.4g MeV is outside the calibration [%g, %g] MeV: extrapolated, with the distance to the range in its error", tr.Ekin, lo, hi)
 	}
 	res.Status, res.Reason = status, reason
 	return res, nil
@@ -600,4 +624,128 @@ func (f *Fitter) scanAxis(sc *scratch, x candidate) (candidate, bool) {
 func (f *Fitter) setDark(sc *scratch) {
 	sc.eps = f.darkFraction(len(sc.sel))
 	sc.logRes.fill(&f.res, sc.eps)
+}
+
+// shared adds to the statistical errors the event-to-event spreads that
+// all hits of an event share, from the calibration at the fitted energy
+// (CalibrationPoint.DirSpread, ShiftSpread): the direction's spread in
+// quadrature to each angle's, and to the vertex the light point's spread
+// across the track, VertexSpread^2 (e1 e1^T + e2 e2^T), and the error of
+// moving the light point back to the track start, Shift^2 (sigma_1^2 e1
+// e1^T + sigma_2^2 e2 e2^T) across the track from the direction's error
+// and ShiftSpread^2 d d^T along it (ShiftSpread/c to the time).
+func (f *Fitter) shared(res *Result, cp CalibrationPoint) (angle [2]float64, vertex r3.Vector, time float64) {
+	for k := range 2 {
+		angle[k] = math.Min(math.Hypot(res.AngleStat[k], cp.DirSpread), math.Pi)
+	}
+	d := res.Track.Dir
+	e1, e2 := phys.Basis(d)
+	var cov [3][3]float64
+	for i := range 3 {
+		for j := range 3 {
+			cov[i][j] = res.Cov[i][j]
+		}
+	}
+	add := func(u r3.Vector, v float64) {
+		c := [3]float64{u.X, u.Y, u.Z}
+		for i := range 3 {
+			for j := range 3 {
+				cov[i][j] += v * c[i] * c[j]
+			}
+		}
+	}
+	s, v := res.Shift, cp.VertexSpread
+	add(e1, s*s*angle[0]*angle[0]+v*v)
+	add(e2, s*s*angle[1]*angle[1]+v*v)
+	add(d, cp.ShiftSpread*cp.ShiftSpread)
+	vertex = r3.Vector{X: math.Sqrt(cov[0][0]), Y: math.Sqrt(cov[1][1]), Z: math.Sqrt(cov[2][2])}
+	time = math.Hypot(math.Sqrt(res.Cov[3][3]), cp.ShiftSpread/phys.SpeedOfLight)
+	return angle, vertex, time
+}
+
+// darkFalseRate is the probability with which the selected hits of pure
+// dark noise may be taken for an event.
+const darkFalseRate = 1e-3
+
+// darkOnly reports whether the selected hits are consistent with dark
+// noise alone, with the probability that dark noise puts at least as
+// many hits into some selection window of the event's time span: the
+// Poisson probability P(N >= n | mu) (mu the expected dark hits of the
+// live sensors in one window), times the number of independent windows
+// in the span of the hits (a trials factor for the sliding window). The
+// hits are taken for an event when that probability is below
+// darkFalseRate.
+func (f *Fitter) darkOnly(sc *scratch) (float64, bool) {
+	mu := f.darkPerNs * f.selWindow
+	n := len(sc.sel)
+	if !(mu > 0) || n == 0 {
+		return 0, false
+	}
+	span := sc.sorted[len(sc.sorted)-1].Time - sc.sorted[0].Time
+	trials := math.Max(1, span/f.selWindow)
+	// P(Poisson(mu) >= n) is the regularized lower incomplete gamma P(n, mu).
+	p := math.Min(1, trials*mathext.GammaIncReg(float64(n), mu))
+	return p, p >= darkFalseRate
+}
+
+// suspectAmbiguity is the log-likelihood margin below which a fit is
+// flagged (Result.Suspect): a second maximum along the ring axis at
+// least ambiguityDistance away that is less than e^4 (about 55) times less
+// likely than the best is no safe choice between the two.
+// narrowAmbiguity and narrowDirGoodness flag the fits that sit behind
+// the true vertex on the ring axis: seen from there the hits lie on a
+// cone narrower than the Cherenkov angle's, so the direction likelihood
+// is better than the density expects (DirGoodness above 2, which about
+// one good fit in ten also reaches), and a second maximum along the axis
+// is within a likelihood ratio of e^12.
+const (
+	narrowAmbiguity   = 12
+	narrowDirGoodness = 2
+)
+
+// suspectVertexError (cm) is the vertex uncertainty beyond which a fit
+// is flagged as well: the hits do not place the event.
+const (
+	suspectVertexError = 100
+	suspectAmbiguity   = 4
+	ambiguityDistance  = 200 // cm
+)
+
+// ambiguity returns the log-likelihood margin of the maximum x over the
+// best point along the ring axis (the mean direction of the prompt hits
+// through x) at least ambiguityDistance from x, with the time profiled:
+// the valley of a short track's likelihood along its axis has a second
+// maximum in some events, and a fit can land on the wrong one. +Inf when
+// the axis leaves the tank within that distance on both sides.
+func (f *Fitter) ambiguity(sc *scratch, x candidate) float64 {
+	f.promptHits(sc, x)
+	var axis r3.Vector
+	for _, i := range sc.prompt {
+		axis = axis.Add(sc.sel[i].s.Sub(x.q).Normalize())
+	}
+	if len(sc.prompt) < 2 || axis.Norm() == 0 {
+		return 0
+	}
+	axis = axis.Normalize()
+	tank := f.det.Tank()
+	rMax, zMax := tank.SensorRadius(), tank.SensorHalfHeight()
+	reach := 2 * math.Hypot(rMax, zMax)
+	v0 := x.q.Mul(f.vg)
+	best := math.Inf(1)
+	w := 3 * f.sigmaT
+	for a := -reach; a <= reach; a += axisStep {
+		if math.Abs(a) < ambiguityDistance {
+			continue
+		}
+		p := v0.Add(axis.Mul(a))
+		if math.Hypot(p.X, p.Y) > rMax || math.Abs(p.Z) > zMax {
+			continue
+		}
+		q := p.Mul(1 / f.vg)
+		_, centre := f.score(sc, q, w)
+		for t := centre - 4; t <= centre+4; t += 1 {
+			best = math.Min(best, f.nll(sc, q, t))
+		}
+	}
+	return best - x.score
 }

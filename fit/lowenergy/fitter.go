@@ -31,7 +31,9 @@ type Config struct {
 	// reflective liner wants tables made with it.
 	setup.Setup
 	// Tables are the densities and the energy calibration. Nil means the
-	// embedded set made for the tank closest in size to Detector's.
+	// embedded set whose recorded dependencies (sensor timing and size,
+	// coverage, water: Dependencies) match the Setup's, or the nearest
+	// with a warning (Fitter.TablesWarning) when none does.
 	Tables *Tables
 	// MaxIterations bounds the major iterations of each optimizer stage;
 	// 0 means 200.
@@ -78,6 +80,10 @@ type Fitter struct {
 	// energySigma is the energy spread (MeV) at each calibration point.
 	energySigma []float64
 
+	// warning says why the chosen embedded tables do not fit the
+	// detector (empty when they do or the caller gave tables).
+	warning string
+
 	maxIter int
 	maxDur  time.Duration
 	pool    sync.Pool
@@ -100,9 +106,10 @@ func New(cfg Config) (*Fitter, error) {
 	tank := s.Detector.Tank()
 	radius, half := tank.SensorRadius(), tank.SensorHalfHeight()
 	tables := cfg.Tables
+	var warning string
 	if tables == nil {
 		var err error
-		if tables, err = closestEmbedded(radius, half); err != nil {
+		if tables, warning, err = chooseEmbedded(s); err != nil {
 			return nil, err
 		}
 	} else if err := tables.Validate(); err != nil {
@@ -124,6 +131,7 @@ func New(cfg Config) (*Fitter, error) {
 		light:   light,
 		vg:      light.GroupVelocity,
 		maxIter: cfg.MaxIterations,
+		warning: warning,
 		maxDur:  cfg.MaxDuration,
 	}
 	if f.maxIter == 0 {
@@ -180,6 +188,13 @@ func (f *Fitter) EkinRange() (lo, hi float64) {
 	cal := f.tables.Energy
 	return cal[0].Ekin, cal[len(cal)-1].Ekin
 }
+
+// TablesWarning returns, when Config.Tables was nil and no embedded set
+// fits the detector (see Dependencies), a message naming each mismatch
+// of the nearest set, which the fitter uses, and the command that makes
+// matching tables; empty otherwise. Fits with mismatched tables run, but
+// their biases and errors are those of another detector.
+func (f *Fitter) TablesWarning() string { return f.warning }
 
 // GroupVelocity returns the effective group velocity (cm/ns) the fitter
 // converts path lengths to times with.

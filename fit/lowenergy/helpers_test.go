@@ -11,6 +11,7 @@ import (
 	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/phys"
 )
 
@@ -46,8 +47,11 @@ func study(t testing.TB, cfg sim.Config, f *lowenergy.Fitter, e, fid float64, fi
 	return kept
 }
 
+// electronIn draws an electron of kinetic energy e (MeV) with the
+// simulator's samplers: uniform at least fid cm inside the sensor surface
+// (gen.InFiducial), isotropic (gen.Isotropic).
 func electronIn(rng *rand.Rand, tank geom.Tank, fid, e float64) phys.Particle {
-	return sample.Electron(rng, tank, fid, e)
+	return phys.Particle{PDG: phys.Electron, Pos: gen.InFiducial(tank, fid).Sample(rng), Dir: gen.Isotropic().Sample(rng), Ekin: e}
 }
 
 // summarize returns the resolution summary of the converged fits and the

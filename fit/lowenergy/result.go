@@ -22,10 +22,15 @@ type Result struct {
 
 	// Errors are the 1-sigma uncertainties of Track: vertex and time from
 	// the inverse of the curvature (observed information) of the time
-	// likelihood at its maximum; the two direction angles (along the axes
-	// of phys.Basis of Track.Dir) from the curvature of the direction
-	// likelihood; the energy from the calibrated spread of the effective
-	// hit count at Track.Ekin over the slope of the calibration.
+	// likelihood at its maximum, plus the error of moving that point back
+	// to the track start (the shift's calibrated spread along the track,
+	// Shift times the angle errors across it); the two direction angles
+	// (along the axes of phys.Basis of Track.Dir) from the curvature of
+	// the direction likelihood in quadrature with the calibrated
+	// event-to-event spread of the direction (multiple scattering, vertex
+	// error: CalibrationPoint.DirSpread); the energy from the calibrated
+	// spread of the effective hit count at Track.Ekin over the slope of
+	// the calibration.
 	// Errors.Momentum is zero (the fitter reports no momentum).
 	Errors fit.Errors
 	// ErrorsValid says that every entry of Errors comes from a positive
@@ -34,8 +39,14 @@ type Result struct {
 	// no information, ErrorsValid is false and Reason says so; when the
 	// time likelihood's is not, Status is fit.NotConverged.
 	ErrorsValid bool
-	// Cov is the covariance of (x, y, z, t) in cm and ns.
+	// Cov is the covariance of (x, y, z, t) in cm and ns of the maximum
+	// of the time likelihood (the light point, before the shift), the
+	// inverse of its curvature.
 	Cov [4][4]float64
+	// AngleStat holds the statistical errors (rad) of the two angles, from
+	// the curvature of the direction likelihood alone; Errors.Angle adds
+	// the calibrated event-to-event spread (CalibrationPoint.DirSpread).
+	AngleStat [2]float64
 
 	// Neff is the effective hit count the energy is calibrated from.
 	Neff float64
@@ -54,6 +65,31 @@ type Result struct {
 	// near 0 for hits that follow the model, strongly negative for hits
 	// that do not.
 	Goodness float64
+
+	// EkinOutside says that Track.Ekin lies outside the energy
+	// calibration (Fitter.EkinRange): the energy is extrapolated linearly,
+	// and its error adds the distance to the range to the end point's
+	// spread scaled as sqrt(Ekin); Reason says so.
+	EkinOutside bool
+
+	// DirGoodness is the standardized direction log-likelihood, (logL -
+	// N E[log g]) / sqrt(N Var[log g]) under the direction density g of
+	// the N prompt hits: strongly positive when the hits sit at a narrower
+	// cone than the Cherenkov angle's, as seen from a vertex behind the
+	// true one on the ring axis.
+	DirGoodness float64
+
+	// Ambiguity is the log-likelihood margin of the maximum over the best
+	// point along the ring axis at least 2 m away (time profiled): small
+	// when the likelihood's valley along the axis has a second maximum
+	// nearly as good, where a fit may have landed on the wrong side.
+	// Suspect is Ambiguity < 4, a vertex uncertainty (the length of
+	// Errors.Vertex) beyond 1 m, or Ambiguity < 12 with DirGoodness > 2
+	// (the hits look like a cone narrower than Cherenkov's, as from a
+	// vertex behind the truth on the axis): the fit may be far (metres)
+	// from the truth; users wanting clean samples drop suspect fits.
+	Ambiguity float64
+	Suspect   bool
 
 	// VertexCRB holds the Cramer-Rao bounds of the vertex coordinates
 	// (1-sigma, cm): the square roots of the diagonal of the inverse Fisher

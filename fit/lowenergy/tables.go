@@ -20,6 +20,10 @@ import (
 
 //go:generate go run ./internal/gentables -config demo -out data/demo.txt
 //go:generate go run ./internal/gentables -config large -out data/large.txt
+//go:generate go run ./internal/gentables -config demo -sensor small -out data/demo-small-30.txt
+//go:generate go run ./internal/gentables -config demo -sensor large -out data/demo-large-30.txt
+//go:generate go run ./internal/gentables -config large -sensor small -out data/large-small-40.txt
+//go:generate go run ./internal/gentables -config large -sensor medium -out data/large-medium-40.txt
 
 //go:embed data/*.txt
 var embeddedTables embed.FS
@@ -35,9 +39,26 @@ type Bin struct {
 // Gaussian-core mean Mean and width Sigma, and the fitted vertex lies on
 // average Shift cm ahead of the track start along the fitted direction
 // (the light of a track is emitted along it), measured on Events events.
+//
+// DirSpread, ShiftSpread and VertexSpread are the event-to-event spreads
+// the per-hit likelihoods cannot see, because all hits of an event share
+// them: the spread (rad, per projected angle) of the fitted direction
+// about the true one beyond the statistical errors of the direction
+// likelihood (the electron's multiple scattering turns the light of the
+// whole event together; the vertex error tilts every vertex-to-hit
+// vector alike); the spread (cm) of the light-weighted centre ahead of
+// the track start beyond the statistical vertex error along the track
+// (the track length fluctuates); and the spread (cm, per axis) of the
+// fitted light point across the track beyond its statistical error (the
+// light of one event comes from one bent, extended track, while the
+// residual density is that of all tracks, so the hits of an event share
+// the mismatch). Each is the Gaussian-core variance of the calibration
+// sample minus the mean squared statistical error, zero when that is
+// negative. Zero means none is known.
 type CalibrationPoint struct {
-	Ekin, Mean, Sigma, Shift float64
-	Events                   int
+	Ekin, Mean, Sigma, Shift             float64
+	Events                               int
+	DirSpread, ShiftSpread, VertexSpread float64
 }
 
 // Tables holds the densities and the calibration a Fitter is built from.
@@ -48,8 +69,8 @@ type Tables struct {
 	// Name identifies the table set (e.g. "demo", "large").
 	Name string
 	// TankRadius and TankHalfHeight (cm) are the sensor-surface size of the
-	// detector the tables were made for; New picks the embedded set whose
-	// size is closest to the detector's.
+	// detector the tables were made for (information only: New chooses
+	// tables by their Dependencies, never by tank size).
 	TankRadius, TankHalfHeight float64
 	// TTS (ns, Gaussian sigma) is the transit-time spread the residual
 	// table already contains (0 for the intrinsic table); New convolves it
@@ -83,7 +104,9 @@ func (t *Tables) clone() *Tables {
 
 // EmbeddedTables returns the table set embedded in the package under name
 // ("demo" for the demo tank with medium sensors, "large" for the 40 m
-// class tank with large sensors).
+// class tank with large sensors, "<tank>-<sensor class>-<coverage %>"
+// for a built-in tank lined with another class; EmbeddedTableNames lists
+// them).
 func EmbeddedTables(name string) (*Tables, error) {
 	b, err := embeddedTables.ReadFile("data/" + name + ".txt")
 	if err != nil {
@@ -101,27 +124,6 @@ func EmbeddedTableNames() []string {
 	}
 	sort.Strings(names)
 	return names
-}
-
-// closestEmbedded returns the embedded table set whose tank size is
-// closest (in log of radius and half height) to the given one.
-func closestEmbedded(radius, halfHeight float64) (*Tables, error) {
-	var best *Tables
-	bestD := math.Inf(1)
-	for _, name := range EmbeddedTableNames() {
-		t, err := EmbeddedTables(name)
-		if err != nil {
-			return nil, err
-		}
-		d := math.Abs(math.Log(radius/t.TankRadius)) + math.Abs(math.Log(halfHeight/t.TankHalfHeight))
-		if d < bestD {
-			best, bestD = t, d
-		}
-	}
-	if best == nil {
-		return nil, errors.New("lowenergy: no embedded tables")
-	}
-	return best, nil
 }
 
 // maxBins bounds the bins of a tabulated density (the embedded sets have
@@ -173,6 +175,9 @@ func (t *Tables) Validate() error {
 		if !(p.Ekin > 0 && p.Mean > 0 && p.Sigma > 0) || math.IsInf(p.Ekin+p.Mean+p.Sigma, 0) || math.IsNaN(p.Shift) || math.IsInf(p.Shift, 0) || p.Events < 0 {
 			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have positive finite Ekin, Mean, Sigma, a finite Shift and non-negative Events", i, p)
 		}
+		if !(p.DirSpread >= 0 && p.DirSpread <= math.Pi) || !(p.ShiftSpread >= 0) || math.IsInf(p.ShiftSpread, 0) || !(p.VertexSpread >= 0) || math.IsInf(p.VertexSpread, 0) {
+			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v must have DirSpread in [0, pi] and finite non-negative ShiftSpread and VertexSpread", i, p)
+		}
 		if i > 0 && !(p.Ekin > t.Energy[i-1].Ekin && p.Mean > t.Energy[i-1].Mean) {
 			return fmt.Errorf("lowenergy: Tables.Energy[%d] = %+v: Ekin and Mean must increase", i, p)
 		}
@@ -211,7 +216,9 @@ func validateBins(name string, bins []Bin, lo, hi float64) error {
 //	meta <key> <value...>
 //	residual <n>          followed by n lines "lo hi density" (ns, 1/ns)
 //	direction <n>         followed by n lines "lo hi density" (cosine)
-//	energy <n>            followed by n lines "ekin mean sigma shift events"
+//	energy <n>            followed by n lines "ekin mean sigma shift events
+//	                      dirspread shiftspread vertexspread" (the last
+//	                      three may be left out: zero)
 //
 // Each keyword appears at most once; counts are at most 10,000.
 
@@ -330,8 +337,15 @@ func ReadTables(r io.Reader) (*Tables, error) {
 				if !ok {
 					return nil, fmt.Errorf("lowenergy: table ends inside the energy section at line %d", line)
 				}
-				if len(g) != 5 {
-					return nil, fmt.Errorf("lowenergy: table line %d: want 5 fields, have %d", line, len(g))
+				if len(g) != 5 && len(g) != 8 {
+					return nil, fmt.Errorf("lowenergy: table line %d: want 5 or 8 fields, have %d", line, len(g))
+				}
+				spread := []float64{0, 0, 0}
+				if len(g) == 8 {
+					var err error
+					if spread, err = parse(g[5:], 3); err != nil {
+						return nil, err
+					}
 				}
 				v, err := parse(g[:4], 4)
 				if err != nil {
@@ -341,7 +355,7 @@ func ReadTables(r io.Reader) (*Tables, error) {
 				if err != nil || events < 0 {
 					return nil, fmt.Errorf("lowenergy: table line %d: event count %q must be a non-negative integer", line, g[4])
 				}
-				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], events})
+				t.Energy = append(t.Energy, CalibrationPoint{v[0], v[1], v[2], v[3], events, spread[0], spread[1], spread[2]})
 			}
 		default:
 			return nil, fmt.Errorf("lowenergy: table line %d: unknown keyword %q", line, f[0])
@@ -387,7 +401,7 @@ func WriteTables(w io.Writer, t *Tables) error {
 	}
 	fmt.Fprintf(bw, "energy %d\n", len(t.Energy))
 	for _, p := range t.Energy {
-		fmt.Fprintf(bw, "%g %g %g %g %d\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events)
+		fmt.Fprintf(bw, "%g %g %g %g %d %g %g %g\n", p.Ekin, p.Mean, p.Sigma, p.Shift, p.Events, p.DirSpread, p.ShiftSpread, p.VertexSpread)
 	}
 	return bw.Flush()
 }

@@ -1,21 +1,21 @@
 // Package sample simulates the electron samples the fit tables and the
 // fit tests are made from: electrons uniform in a fiducial volume with
-// isotropic directions, in the demo tank or the large reference tank.
-// It imports the simulator, so only tests and the table generator use it;
-// package fit itself does not.
+// isotropic directions, in the demo tank or the large reference tank. The
+// primaries come from the simulator's own samplers (gen.InFiducial,
+// gen.Isotropic) drawn from the event's own stream through sim.Run, so a
+// sample is exactly what a user's run with those samplers makes.
+// It imports the simulator, so only tests, examples and the table
+// generator use it; the fitters themselves do not.
 package sample
 
 import (
-	"math"
+	"context"
+	"fmt"
 	"math/rand/v2"
-	"runtime"
-	"sync"
 
-	"github.com/golang/geo/r3"
-
-	"github.com/conelight/conelight/geom"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/event"
+	"github.com/conelight/conelight/sim/gen"
 	"github.com/conelight/conelight/sim/phys"
 	"github.com/conelight/conelight/sim/setup"
 )
@@ -31,59 +31,52 @@ func LargeConfig(seed uint64) (sim.Config, error) {
 	return cfg, err
 }
 
-// Electron draws an electron of kinetic energy e (MeV) uniform in the
-// volume fid cm inside the sensor surface, with an isotropic direction.
-func Electron(rng *rand.Rand, tank geom.Tank, fid, e float64) phys.Particle {
-	r := tank.SensorRadius() - fid
-	h := tank.SensorHalfHeight() - fid
-	var p r3.Vector
-	for {
-		p = r3.Vector{X: (2*rng.Float64() - 1) * r, Y: (2*rng.Float64() - 1) * r, Z: (2*rng.Float64() - 1) * h}
-		if math.Hypot(p.X, p.Y) <= r {
-			break
-		}
-	}
-	cz := 2*rng.Float64() - 1
-	phi := 2 * math.Pi * rng.Float64()
-	sz := math.Sqrt(1 - cz*cz)
-	return phys.Particle{PDG: phys.Electron, Pos: p, Dir: r3.Vector{X: sz * math.Cos(phi), Y: sz * math.Sin(phi), Z: cz}, Ekin: e}
+// electrons is a gen.Generator of one electron per event: vertex from
+// gen.InFiducial, direction from gen.Isotropic, kinetic energy
+// energy(number - first).
+type electrons struct {
+	vertex gen.VertexDist
+	dir    gen.DirDist
+	first  uint64
+	energy func(i int) float64
+}
+
+func (g electrons) String() string {
+	return fmt.Sprintf("electrons: %v, %v", g.vertex, g.dir)
+}
+
+func (g electrons) Generate(number uint64, rng *rand.Rand, dst []phys.Particle) ([]phys.Particle, gen.Info, error) {
+	p := phys.Particle{PDG: phys.Electron, Pos: g.vertex.Sample(rng), Dir: g.dir.Sample(rng), Ekin: g.energy(int(number - g.first))}
+	return append(dst[:0], p), gen.Info{}, nil
 }
 
 // Simulate runs events first..first+n-1 of electrons with energies
-// energy(i) on all cores. Event number k draws its electron from the
-// stream PCG(cfg.Seed, k) and is simulated with the simulator's own
-// stream for (cfg.Seed, k), so the sample does not depend on the number
-// of cores.
+// energy(i) (i = event number - first), uniform at least fid cm inside
+// the sensor surface with isotropic directions, on cfg.Workers
+// goroutines. Every event is returned, triggered or not (Truth.Triggered
+// says which), in event-number order; the sample does not depend on the
+// number of workers.
 func Simulate(cfg sim.Config, fid float64, first uint64, n int, energy func(i int) float64) ([]*event.Event, error) {
+	cfg.KeepUntriggered = true
 	s, err := sim.New(cfg)
 	if err != nil {
 		return nil, err
 	}
-	evs := make([]*event.Event, n)
-	errs := make([]error, n)
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for range runtime.GOMAXPROCS(0) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				num := first + uint64(i)
-				rng := rand.New(rand.NewPCG(cfg.Seed, num))
-				p := Electron(rng, cfg.Detector.Tank(), fid, energy(i))
-				evs[i], errs[i] = s.Event(num, []phys.Particle{p})
-			}
-		}()
+	vd := gen.InFiducial(cfg.Detector.Tank(), fid)
+	if err := vd.Validate(); err != nil {
+		return nil, fmt.Errorf("sample: %w", err)
 	}
-	for i := range n {
-		next <- i
+	g := electrons{vertex: vd, dir: gen.Isotropic(), first: first, energy: energy}
+	evs := make([]*event.Event, 0, n)
+	err = s.Run(context.Background(), g, sim.RunOptions{First: first, Count: uint64(n)}, func(ev *event.Event) error {
+		evs = append(evs, ev)
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
-	close(next)
-	wg.Wait()
-	for _, e := range errs {
-		if e != nil {
-			return nil, e
-		}
+	if len(evs) != n {
+		return nil, fmt.Errorf("sample: %d of %d events simulated", len(evs), n)
 	}
 	return evs, nil
 }

@@ -22,20 +22,35 @@
 //  3. Energy calibration: the real sensor with dark noise and the default
 //     trigger; each triggered event is fitted with the tables of steps 1
 //     and 2, and the Gaussian core of the effective hit count at each
-//     energy is recorded.
+//     energy is recorded, with the vertex shift and the event-to-event
+//     spreads of the direction, the shift and the light point across
+//     the track that the statistical errors miss (lowenergy.CalibrationPoint).
+//
+// The tables record the detector facts they depend on and a provenance
+// hash (lowenergy.Dependencies). For a detector no embedded set fits,
+// -sensor and -coverage line the config's tank anew:
+//
+//	go run ./fit/lowenergy/internal/gentables -config demo -sensor small -coverage 0.2 -out mytables.txt
 package main
 
 import (
 	"flag"
 	"fmt"
 	"log"
+	"maps"
 	"math"
+	"strings"
+
+	"github.com/golang/geo/r3"
 
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/internal/sample"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
+	"github.com/conelight/conelight/geom"
+	"github.com/conelight/conelight/pmt"
 	"github.com/conelight/conelight/sim"
+	"github.com/conelight/conelight/sim/phys"
 )
 
 func main() {
@@ -46,6 +61,8 @@ func main() {
 	nCal := flag.Int("calib", 1000, "events per calibration energy")
 	withTTS := flag.Bool("sensor-tts", false, "tabulate residuals with the sensor's own TTS instead of the intrinsic (TTS = 0) density")
 	fiducial := flag.Float64("fiducial", 0, "fiducial distance from the sensor surface, cm (0: 100 demo, 200 large)")
+	sensor := flag.String("sensor", "", "sensor class replacing the config's own: small, medium or large (empty: the config's)")
+	coverage := flag.Float64("coverage", 0, "photocathode coverage replacing the config's own, in (0, 0.9) (0: the config's)")
 	flag.Parse()
 	if *out == "" {
 		log.Fatal("gentables: -out is required")
@@ -57,13 +74,49 @@ func main() {
 	if *fiducial > 0 {
 		fid = *fiducial
 	}
-	t, err := generate(*configName, cfg, fid, *seed, *nShape, *nCal, *withTTS)
+	name := *configName
+	if *sensor != "" || *coverage != 0 {
+		if cfg, err = relined(cfg, *sensor, *coverage); err != nil {
+			log.Fatal(err)
+		}
+		name = fmt.Sprintf("%s-%s-%.0f", name, strings.ToLower(cfg.Sensor.Name), 100*cfg.Detector.Coverage())
+	}
+	t, err := generate(name, cfg, fid, *seed, *nShape, *nCal, *withTTS)
 	if err != nil {
 		log.Fatal(err)
 	}
 	if err := lowenergy.SaveTables(*out, t); err != nil {
 		log.Fatal(err)
 	}
+}
+
+// relined returns cfg with its tank lined anew (geom.Layout) with the
+// named sensor class and coverage (empty or 0: the config's own).
+func relined(cfg sim.Config, sensor string, coverage float64) (sim.Config, error) {
+	switch sensor {
+	case "":
+	case "small":
+		cfg.Sensor = pmt.Small()
+	case "medium":
+		cfg.Sensor = pmt.Medium()
+	case "large":
+		cfg.Sensor = pmt.Large()
+	default:
+		return cfg, fmt.Errorf("gentables: -sensor %q: want small, medium or large", sensor)
+	}
+	if coverage == 0 {
+		coverage = cfg.Detector.Coverage()
+	}
+	if !(coverage > 0 && coverage < 0.9) {
+		return cfg, fmt.Errorf("gentables: -coverage %v: want a value in (0, 0.9)", coverage)
+	}
+	det, err := geom.Layout(cfg.Detector.Tank(), cfg.Sensor.CathodeDiameter, coverage)
+	if err != nil {
+		return cfg, fmt.Errorf("gentables: %w", err)
+	}
+	cfg.Detector = det
+	cfg.Dead = nil
+	return cfg, nil
 }
 
 func config(name string, seed uint64) (sim.Config, float64, error) {
@@ -184,7 +237,7 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		if err != nil {
 			return nil, err
 		}
-		var neff, shift []float64
+		var neff, shift, angle, angleVar, alongVar, across, acrossVar []float64
 		for _, ev := range evs {
 			if !ev.Truth.Triggered {
 				continue
@@ -196,7 +249,35 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 			if r.Status == fit.Converged {
 				neff = append(neff, r.Neff)
 				p := ev.Truth.Primaries[0]
-				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(r.Track.Dir))
+				d := r.Track.Dir
+				shift = append(shift, r.Track.Vertex.Sub(p.Pos).Dot(d))
+				// The calibration's own tables have no spreads yet, so
+				// the fit's errors are the statistical ones.
+				c := [3]float64{d.X, d.Y, d.Z}
+				v := 0.0
+				for i := range 3 {
+					for j := range 3 {
+						v += c[i] * r.Cov[i][j] * c[j]
+					}
+				}
+				alongVar = append(alongVar, v)
+				e1, e2 := phys.Basis(d)
+				light := r.Track.Vertex.Add(d.Mul(r.Shift)).Sub(p.Pos)
+				for _, u := range []r3.Vector{e1, e2} {
+					c := [3]float64{u.X, u.Y, u.Z}
+					v := 0.0
+					for i := range 3 {
+						for j := range 3 {
+							v += c[i] * r.Cov[i][j] * c[j]
+						}
+					}
+					across = append(across, light.Dot(u))
+					acrossVar = append(acrossVar, v)
+				}
+				if r.ErrorsValid {
+					angle = append(angle, p.Dir.Dot(e1), p.Dir.Dot(e2))
+					angleVar = append(angleVar, r.AngleStat[0]*r.AngleStat[0], r.AngleStat[1]*r.AngleStat[1])
+				}
 			}
 		}
 		g, err := resolution.GaussianCore(neff, 2)
@@ -207,11 +288,39 @@ func generate(name string, cfg sim.Config, fid float64, seed uint64, nShape, nCa
 		if err != nil {
 			return nil, fmt.Errorf("gentables: vertex shift at %v MeV: %w", e, err)
 		}
-		cal = append(cal, lowenergy.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff)})
-		log.Printf("%s: %5.1f MeV: Neff %.1f sigma %.1f shift %.1f cm (%d fitted of %d)", name, e, g.Mean.Value, g.Sigma.Value, gs.Mean.Value, len(neff), nCal)
+		dirSpread, err := excess(angle, angleVar)
+		if err != nil {
+			return nil, err
+		}
+		along := make([]float64, len(shift))
+		for i, v := range shift {
+			along[i] = v - gs.Mean.Value
+		}
+		shiftSpread, err := excess(along, alongVar)
+		if err != nil {
+			return nil, err
+		}
+		vertexSpread, err := excess(across, acrossVar)
+		if err != nil {
+			return nil, err
+		}
+		highland, err := scatterSpread(e)
+		if err != nil {
+			return nil, err
+		}
+		cal = append(cal, lowenergy.CalibrationPoint{Ekin: e, Mean: g.Mean.Value, Sigma: g.Sigma.Value, Shift: gs.Mean.Value, Events: len(neff),
+			DirSpread: dirSpread, ShiftSpread: shiftSpread, VertexSpread: vertexSpread})
+		log.Printf("%s: %5.1f MeV: Neff %.1f sigma %.1f shift %.1f cm spread %.1f cm, across %.1f cm, direction spread %.3f rad (multiple scattering of the light-weighted direction %.3f) (%d fitted of %d)",
+			name, e, g.Mean.Value, g.Sigma.Value, gs.Mean.Value, shiftSpread, vertexSpread, dirSpread, highland, len(neff), nCal)
+		t.Meta[fmt.Sprintf("scattering_%g_MeV", e)] = fmt.Sprintf("%.4f rad", highland)
 	}
 	t.Energy = cal
-	t.Meta["calibration"] = fmt.Sprintf("%d electrons per energy, triggered and converged fits, Gaussian cores (2 sigma) of Neff and of the vertex shift along the fitted direction", nCal)
+	deps, err := lowenergy.DependenciesOf(cfg.Setup)
+	if err != nil {
+		return nil, err
+	}
+	maps.Copy(t.Meta, deps.Meta())
+	t.Meta["calibration"] = fmt.Sprintf("%d electrons per energy, triggered and converged fits, Gaussian cores (2 sigma) of Neff, of the vertex shift along the fitted direction, of the light point across it and of the projected direction angles; spreads are the excess in quadrature that gives unit Gaussian-core pull width", nCal)
 	return t, t.Validate()
 }
 
@@ -265,4 +374,45 @@ func uniformDensity(edges []float64) []lowenergy.Bin {
 		bins[i] = lowenergy.Bin{Lo: edges[i], Hi: edges[i+1], Density: 1 / span}
 	}
 	return bins
+}
+
+// excess returns the spread v shared by the events of a sample beyond
+// their statistical variances: the v >= 0 for which the deviations
+// dev[i] / sqrt(stat[i] + v^2) have a Gaussian core (2 sigma) of unit
+// width, 0 when they are narrower already. It is found by bisection (the
+// width falls as v grows).
+func excess(dev, stat []float64) (float64, error) {
+	if len(dev) == 0 {
+		return 0, nil
+	}
+	width := func(v float64) (float64, error) {
+		p := make([]float64, len(dev))
+		for i := range dev {
+			p[i] = dev[i] / math.Sqrt(stat[i]+v*v)
+		}
+		g, err := resolution.GaussianCore(p, 2)
+		return g.Sigma.Value, err
+	}
+	w0, err := width(0)
+	if err != nil || w0 <= 1 {
+		return 0, err
+	}
+	core, err := resolution.GaussianCore(dev, 2)
+	if err != nil {
+		return 0, err
+	}
+	lo, hi := 0.0, 2*core.Sigma.Value
+	for range 50 {
+		m := 0.5 * (lo + hi)
+		w, err := width(m)
+		if err != nil {
+			return 0, err
+		}
+		if w > 1 {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return 0.5 * (lo + hi), nil
 }
