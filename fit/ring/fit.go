@@ -138,10 +138,10 @@ func (w *workspace) fitEvent(hits []pmt.Hit, win Window) (Reconstruction, error)
 	// track and keep the better of its two fits.
 	if math.Abs(rec.LLR) < crossSeedLLR || rec.Electron.Status != fit.Converged || rec.Muon.Status != fit.Converged || disagree(&rec.Electron.Track, &rec.Muon.Track) {
 		from, to := &rec.Electron, &rec.Muon
-		if rec.LLR < 0 || rec.Electron.Status != fit.Converged {
+		if rec.LLR < 0 || !rec.Electron.Usable() {
 			from, to = &rec.Muon, &rec.Electron
 		}
-		if from.Status == fit.Converged {
+		if from.Usable() {
 			h := to.Hypothesis
 			seed := w.trackSeed(h, from.Track.Vertex, from.Track.Time, from.Track.Dir)
 			if alt := w.fitLoaded(h, seed); alt.Status == fit.Converged && (to.Status != fit.Converged || alt.NLL < to.NLL) {
