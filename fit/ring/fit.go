@@ -33,14 +33,15 @@ type Result struct {
 	// uncertainties; when they were wanted but could not be had (the
 	// numerical Hessian not positive definite) Reason says why.
 	ErrorsValid bool
-	// Errors are from the curvature of the likelihood (the inverse of the
-	// numerical Hessian), the two angles along the axes of phys.Basis of
-	// Track.Dir; Cov is that covariance matrix in the parameter order of
-	// NumParams. Fit computes them for the hypothesis with the
-	// better likelihood only (FitFrom for its one hypothesis); they are
-	// zero for the other, when Config.SkipUncertainties is set or when the
-	// fit failed. They are statistical only: see the package
-	// documentation on pulls.
+	// Errors are the square roots of the diagonal of Cov, the two angles
+	// along the axes of phys.Basis of Track.Dir; Cov is the covariance
+	// matrix in the parameter order of NumParams: the measurement part
+	// (the sandwich of the likelihood's Hessian and the sensors' scores)
+	// plus the intrinsic fluctuation of the emission as a whole (see the
+	// package documentation, Uncertainties). Fit computes them for the
+	// hypothesis with the better likelihood only (FitFrom for its one
+	// hypothesis); they are zero for the other, when
+	// Config.SkipUncertainties is set or when the fit failed.
 	Errors fit.Errors
 	Cov    [NumParams][NumParams]float64
 	// CramerRao is the Cramer-Rao bound at the fitted track: the

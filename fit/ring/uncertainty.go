@@ -51,6 +51,7 @@ func (w *workspace) addUncertainties(res *Result) {
 	}
 	cov := minimize.Sandwich(&hinv, w.sensorScores(h, &fr, curv.step))
 	res.Cov = fr.physCov(cov)
+	w.addIntrinsic(h, best, &res.Cov)
 	res.Errors = errorsFrom(&res.Cov, h, best.Ekin)
 	res.CramerRao = w.cramerRao(h, best, curv)
 	res.Evaluations = w.evals
@@ -104,6 +105,39 @@ func (w *workspace) curvatureAt(h Hypothesis, fr *frame, step float64) *curvatur
 		}
 	})
 	return c
+}
+
+// addIntrinsic adds to cov, the covariance of the fit of hypothesis h at
+// track tr, that of the event-to-event fluctuations of the emission as a
+// whole, which the likelihood of the mean profile cannot see: the
+// direction of an event's light axis about the particle's initial
+// direction (a muon's multiple scattering, a shower's early spread), the
+// start of its light along the track (where a shower begins to radiate)
+// with the time that moves with it at c, and its photon count (shower and
+// delta-ray fluctuations, straggling) turned into kinetic energy by
+// dlnPhotons/dlnE. The generator measures each on the simulated particles
+// of every table node (profile.Node); they are independent of the
+// measurement noise and add to its covariance.
+func (w *workspace) addIntrinsic(h Hypothesis, tr fit.Track, cov *[NumParams][NumParams]float64) {
+	p := &w.prof
+	w.f.species(h).interpolate(tr.Ekin, p)
+	u := [3]float64{tr.Dir.X, tr.Dir.Y, tr.Dir.Z}
+	v := p.startSD * p.startSD
+	c := phys.SpeedOfLight
+	for a := 0; a < 3; a++ {
+		for b := 0; b < 3; b++ {
+			cov[a][b] += v * u[a] * u[b]
+		}
+		cov[a][3] += v * u[a] / c
+		cov[3][a] += v * u[a] / c
+	}
+	cov[3][3] += v / (c * c)
+	cov[4][4] += p.axisVar
+	cov[5][5] += p.axisVar
+	if p.photonSlope > 0 {
+		se := tr.Ekin * p.photonsSD / p.photonSlope
+		cov[6][6] += se * se
+	}
 }
 
 // sensorScores returns every sensor's score at the origin of fr, the
