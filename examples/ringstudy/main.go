@@ -17,8 +17,15 @@
 // worsening; -power prints, for each 68% resolution, the power to detect
 // a 15% worsening at that level (resolution.Power).
 //
+// -scan runs the light-model diagnostic instead: for each point, the
+// charge and time parts of the likelihood summed over the events with the
+// vertex moved along the true axis (ring.Fitter.NLLParts), and where each
+// part has its minimum; a part whose minimum is away from zero biases
+// the fitted vertex along the track.
+//
 //	go run ./examples/ringstudy -detector large -n 100 -out testdata/ring/large_study.json
 //	go run ./examples/ringstudy -detector demo -points e-600,mu-600 -n 20
+//	go run ./examples/ringstudy -scan -detector demo -points e-600 -n 16
 package main
 
 import (
@@ -56,11 +63,16 @@ func main() {
 	base := flag.String("baseline", "", "compare the figures with this stored baseline (resolution.Compare)")
 	level := flag.Float64("level", 3, "with -baseline: a worsening of this many standard errors fails")
 	power := flag.Bool("power", false, "print the power to detect a 15% worsening of each 68% resolution at -level")
+	doScan := flag.Bool("scan", false, "instead of the study: the light-model diagnostic, the charge and time parts of the likelihood scanned along the true axis")
 	cli.Parse(usage)
 	o.detector = *spec
 	var err error
 	if o.points, err = parsePoints(*points); err == nil {
-		err = main1(os.Stdout, o, *out, *base, *level, *power)
+		if *doScan {
+			err = scan(context.Background(), os.Stdout, o)
+		} else {
+			err = main1(os.Stdout, o, *out, *base, *level, *power)
+		}
 	}
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "ringstudy:", err)

@@ -71,3 +71,19 @@ func TestParsePoints(t *testing.T) {
 		t.Errorf("n = 0: error %v, want one naming -n", err)
 	}
 }
+
+// TestScanTiny runs the diagnostic on two events: the summed curves and
+// the minima are printed, and the total at zero shift is the reference.
+func TestScanTiny(t *testing.T) {
+	pts, _ := parsePoints("e-400")
+	var out bytes.Buffer
+	if err := scan(context.Background(), &out, options{detector: "demo", points: pts, n: 2, wall: 150, seed: 5}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out.String(), "minimum: charge") || !strings.Contains(out.String(), "      +0        +0.00        +0.00        +0.00") {
+		t.Errorf("scan report:\n%s", out.String())
+	}
+	if x := scanMinimum([]float64{-1, 0, 1, 2}, []float64{4, 1, 0, 1}); x != 1 {
+		t.Errorf("scanMinimum of a parabola about 1: %g", x)
+	}
+}

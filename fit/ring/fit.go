@@ -207,3 +207,23 @@ func (w *workspace) fitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed fit.T
 	w.addUncertainties(&res)
 	return res, nil
 }
+
+// NLLParts returns the negative log likelihood of hypothesis h with track
+// tr for an event, split into the charge terms of every live sensor and
+// the time terms of the hit ones, on the hits Fit would use with the
+// prompt window about tr.Time: for likelihood scans that find which part
+// of the model pulls a fit (examples/ringstudy -scan).
+func (f *Fitter) NLLParts(hits []pmt.Hit, win Window, h Hypothesis, tr fit.Track) (charge, time float64, err error) {
+	if err := f.checkTrack(h, tr); err != nil {
+		return 0, 0, err
+	}
+	w := f.workspace()
+	defer f.pool.Put(w)
+	if _, err := w.selectAround(hits, win, tr.Time); err != nil {
+		return 0, 0, err
+	}
+	tr.Dir = tr.Dir.Normalize()
+	all := w.nll(h, tr)
+	time = w.timeShiftNLL(0)
+	return all - time, time, nil
+}
