@@ -429,8 +429,8 @@ func calibratedPID(w io.Writer, samples []sample, o options, detector string) (r
 		resolution.FractionFigure("mu_called_e", muBad, max(len(muTest), 1), resolution.Larger))
 	ce, _ := resolution.ClopperPearson(eBad, max(len(eTest), 1), 0.6827)
 	cm, _ := resolution.ClopperPearson(muBad, max(len(muTest), 1), 0.6827)
-	fmt.Fprintf(w, "\nidentity cut calibrated on %d e + %d mu (LLR > %.1f %+.1f p/GeV): on the other half e called mu %d/%d %s, mu called e %d/%d %s\n",
-		len(eTrain), len(muTrain), cut.Offset, cut.Slope, eBad, len(eTest), ce.Percent(), muBad, len(muTest), cm.Percent())
+	fmt.Fprintf(w, "\nidentity cut calibrated on %d e + %d mu (LLR > %.1f %+.1f p/GeV): on the other half e called mu %s, mu called e %s\n",
+		len(eTrain), len(muTrain), cut.Offset, cut.Slope, ce.Percent(), cm.Percent())
 	return p, true
 }
 
