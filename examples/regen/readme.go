@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bufio"
 	"bytes"
 	"fmt"
 	"io"
@@ -31,6 +30,7 @@ var blocks = map[string]renderer{
 	"tanks":          renderTanks,
 	"lowenergy-demo": renderLowEnergyDemo,
 	"ring-demo":      renderRingDemo,
+	"ring-large":     renderRingLarge,
 	"quickstart":     renderQuickstart,
 }
 
@@ -176,80 +176,134 @@ func renderLowEnergyDemo(root string) (string, error) {
 	return out.String(), nil
 }
 
-// renderRingDemo renders the ring fitter's regression baseline: each 68%
-// quantile with the half width of its stored band divided by the band's
-// 4 binomial standard errors as a 1-sigma error.
+// loadRingBaseline reads a ring baseline (resolution.Baseline JSON) under
+// root.
+func loadRingBaseline(root, rel string) (*resolution.Baseline, error) {
+	return resolution.LoadBaseline(filepath.Join(root, rel))
+}
+
+// ringFigure returns the named figure of p.
+func ringFigure(p resolution.Point, name string) (resolution.Figure, bool) {
+	for _, f := range p.Figures {
+		if f.Name == name {
+			return f, true
+		}
+	}
+	return resolution.Figure{}, false
+}
+
+// ringLabel turns "e-600" into "e, 600".
+func ringLabel(name string) string {
+	part, mom, _ := strings.Cut(name, "-")
+	return part + ", " + mom
+}
+
+// fmtFigure formats a figure as "value ± err" with the given format for
+// both, or "n/a" when p lacks it.
+func fmtFigure(p resolution.Point, name, format string) string {
+	f, ok := ringFigure(p, name)
+	if !ok {
+		return "n/a"
+	}
+	return fmt.Sprintf(format+" ± "+strings.Replace(format, "+", "", 1), f.Value, f.Err)
+}
+
+// fmtFraction formats a fraction figure as k/n with its Clopper-Pearson
+// interval (68.3% CL; a one-sided upper limit at 0/n).
+func fmtFraction(p resolution.Point, name string) string {
+	f, ok := ringFigure(p, name)
+	if !ok || f.N == 0 {
+		return "n/a"
+	}
+	b, err := resolution.ClopperPearson(f.K, f.N, 0.6827)
+	if err != nil {
+		return fmt.Sprintf("%d/%d", f.K, f.N)
+	}
+	return b.Percent()
+}
+
+// renderRingDemo renders the ring fitter's regression baseline
+// (testdata/ring/demo_baseline.json): each 68% quantile with its
+// order-statistic error, the mis-identified fraction with its
+// Clopper-Pearson interval, the quasi-elastic neutrino energy resolution
+// and the pooled pull widths.
 func renderRingDemo(root string) (string, error) {
-	f, err := os.Open(filepath.Join(root, "testdata/ring/demo_baseline.txt"))
+	b, err := loadRingBaseline(root, "testdata/ring/demo_baseline.json")
 	if err != nil {
 		return "", err
 	}
-	defer f.Close()
-	type row struct {
-		vals  map[string][3]float64
-		order int
-	}
-	rows := map[string]*row{}
-	var names []string
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := strings.TrimSpace(sc.Text())
-		if line == "" || line[0] == '#' {
-			continue
-		}
-		fs := strings.Fields(line)
-		if len(fs) != 5 {
-			return "", fmt.Errorf("ring baseline line %q: want 5 fields", line)
-		}
-		point, metric, ok := strings.Cut(fs[0], "/")
-		if !ok {
-			return "", fmt.Errorf("ring baseline line %q: no point/metric", line)
-		}
-		var v [5]float64
-		for k := 1; k < 5; k++ {
-			if v[k], err = strconv.ParseFloat(fs[k], 64); err != nil {
-				return "", fmt.Errorf("ring baseline line %q: %w", line, err)
-			}
-		}
-		r, ok := rows[point]
-		if !ok {
-			r = &row{vals: map[string][3]float64{}}
-			rows[point] = r
-			names = append(names, point)
-		}
-		r.vals[metric] = [3]float64{v[1], v[2], (v[4] - v[3]) / 8}
-	}
-	if err := sc.Err(); err != nil {
-		return "", err
-	}
-	var b strings.Builder
-	b.WriteString("| particle, p (MeV/c) | events | vertex 68% (cm) | direction 68% (deg) | momentum 68% | mis-identified |\n| --- | --- | --- | --- | --- | --- |\n")
+	var sb strings.Builder
+	sb.WriteString("| particle, p (MeV/c) | events | vertex 68% (cm) | direction 68% (deg) | momentum 68% (%) | mis-identified |\n| --- | --- | --- | --- | --- | --- |\n")
 	var qe, pulls []string
-	for _, name := range names {
-		r := rows[name]
-		if e, ok := r.vals["enu68"]; ok {
-			qe = append(qe, fmt.Sprintf("%s %.1f%% (%d events)", strings.TrimPrefix(name, "qe-"), 100*e[0], int(e[1])))
-			continue
-		}
-		if name == "pull" {
-			for _, k := range []string{"x", "y", "z", "t", "angle", "energy"} {
-				if v, ok := r.vals[k]; ok {
-					pulls = append(pulls, fmt.Sprintf("%s %.2f", k, v[0]))
-				}
+	for _, p := range b.Points {
+		switch {
+		case strings.HasPrefix(p.Name, "qe-"):
+			qe = append(qe, fmt.Sprintf("%s %s%% (%d events)", strings.TrimPrefix(p.Name, "qe-"), fmtFigure(p, "enu68", "%.1f"), p.Sample.Events))
+		case p.Name == "pulls":
+			for _, f := range p.Figures {
+				pulls = append(pulls, fmt.Sprintf("%s %.2f ± %.2f", f.Name, f.Value, f.Err))
 			}
-			continue
+		default:
+			fmt.Fprintf(&sb, "| %s | %d | %s | %s | %s | %s |\n", ringLabel(p.Name), p.Sample.Events,
+				fmtFigure(p, "vertex68", "%.1f"), fmtFigure(p, "direction68", "%.2f"), fmtFigure(p, "momentum68", "%.1f"), fmtFraction(p, "misid"))
 		}
-		part, p, _ := strings.Cut(name, "-")
-		v, a, m, id := r.vals["vertex68"], r.vals["angle68"], r.vals["momentum68"], r.vals["misid"]
-		fmt.Fprintf(&b, "| %s, %s | %d | %.1f ± %.1f | %.2f ± %.2f | %.1f ± %.1f%% | %d/%d |\n", part, p, int(v[1]), v[0], v[2], a[0], a[2], 100*m[0], 100*m[2], int(id[0]), int(id[1]))
 	}
 	if len(qe) > 0 {
-		fmt.Fprintf(&b, "\nQuasi-elastic neutrino energy, 68%% of |E_fit - E_true|/E_true: %s.\n", strings.Join(qe, ", "))
+		fmt.Fprintf(&sb, "\nQuasi-elastic neutrino energy, 68%% of |E_fit - E_true|/E_true: %s.\n", strings.Join(qe, ", "))
 	}
 	if len(pulls) > 0 {
-		fmt.Fprintf(&b, "\nPull widths (half the 16-84%% range of (fit - truth) / reported error; 1 for calibrated errors): %s.\n", strings.Join(pulls, ", "))
+		fmt.Fprintf(&sb, "\nPull widths (Gaussian core of (fit - truth) / reported error, pooled over the particle points; 1 for calibrated errors): %s.\n", strings.Join(pulls, ", "))
 	}
-	return b.String(), nil
+	return sb.String(), nil
+}
+
+// renderRingLarge renders the large-tank study of the ring fitter
+// (testdata/ring/large_study.json, written by examples/ringstudy): per
+// point the resolutions, the vertex bias along the track, the
+// mis-identification, the pull widths and the median Cramer-Rao bounds
+// with the achieved/bound ratios, each with its error and sample size.
+func renderRingLarge(root string) (string, error) {
+	b, err := loadRingBaseline(root, "testdata/ring/large_study.json")
+	if err != nil {
+		return "", err
+	}
+	var sb strings.Builder
+	sb.WriteString("| particle, p (MeV/c) | events | vertex 68% (cm) | direction 68% (deg) | momentum 68% (%) | vertex bias along track (cm) | mis-identified (zero cut) |\n| --- | --- | --- | --- | --- | --- | --- |\n")
+	var pid []string
+	for _, p := range b.Points {
+		if p.Name == "pid-calibrated" {
+			pid = append(pid, "electrons called muons "+fmtFraction(p, "e_called_mu"), "muons called electrons "+fmtFraction(p, "mu_called_e"))
+			continue
+		}
+		fmt.Fprintf(&sb, "| %s | %d | %s | %s | %s | %s | %s |\n", ringLabel(p.Name), p.Sample.Events,
+			fmtFigure(p, "vertex68", "%.1f"), fmtFigure(p, "direction68", "%.2f"), fmtFigure(p, "momentum68", "%.1f"),
+			fmtFigure(p, "bias_along", "%+.1f"), fmtFraction(p, "misid"))
+	}
+	if len(pid) > 0 {
+		fmt.Fprintf(&sb, "\nWith an identity cut calibrated (`ring.CalibratePID`) on the even events and counted on the odd ones: %s.\n", strings.Join(pid, ", "))
+	}
+	sb.WriteString("\nPull widths (Gaussian core; 1 for calibrated errors) and median Cramer-Rao bounds with the ratio achieved 68% / bound:\n\n")
+	sb.WriteString("| particle, p (MeV/c) | x | y | z | t | angle 1 | angle 2 | momentum | bound: vertex (cm) | direction (deg) | momentum (%) |\n| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |\n")
+	for _, p := range b.Points {
+		if p.Name == "pid-calibrated" {
+			continue
+		}
+		row := []string{ringLabel(p.Name)}
+		for _, k := range []string{"x", "y", "z", "t", "angle1", "angle2", "momentum"} {
+			row = append(row, fmtFigure(p, "pull_"+k, "%.2f"))
+		}
+		for _, k := range []string{"crb_vertex", "crb_direction", "crb_momentum"} {
+			c, ok1 := ringFigure(p, k)
+			r, ok2 := ringFigure(p, k+"_ratio")
+			if ok1 && ok2 {
+				row = append(row, fmt.Sprintf("%.2f (x%.1f ± %.1f)", c.Value, r.Value, r.Err))
+			} else {
+				row = append(row, "n/a")
+			}
+		}
+		sb.WriteString("| " + strings.Join(row, " | ") + " |\n")
+	}
+	return sb.String(), nil
 }
 
 // renderQuickstart quotes the main function of examples/quickstart, the

@@ -41,7 +41,11 @@
 // R(s)/v_g from the point s on the track that sees it at the Cherenkov
 // angle (clamped to the light-emitting part of the track), with v_g the
 // spectrum-averaged group velocity and delay the tabulated mean emission
-// delay.
+// delay. Outside the outer edge of an electron's ring no point sees the
+// sensor at the Cherenkov angle, and the shower's light there comes from
+// its particles at depth: the time is the light-weighted mean arrival
+// over the steps, its spread added to the time spread, blended in over
+// one step beyond the edge.
 //
 // # Likelihood
 //
@@ -111,20 +115,32 @@
 // says so), which leaves the fit and the particle identification
 // standing.
 //
-// The Hessian uncertainties are those of the likelihood as written, which
-// treats sensors as independent given the prediction. The model width of
-// the charge term covers the per-sensor scatter of the charges, but the
-// event-by-event fluctuations of a shower or of a muon's track (its
-// multiple scattering, delta rays, energy leaving the tank) are correlated
-// across sensors, and the time term has no model width, so the pull
-// distributions of simulated events are wider than the unit normal
-// (TestDemoRegression keeps their widths in its baseline). Scale the
-// errors by the measured pull widths when they are used as resolutions.
+// # Uncertainties
+//
+// The covariance has two parts. The measurement part is the sandwich
+// H^-1 J H^-1 of the numerical Hessian H and the summed outer products J
+// of every sensor's score (the central-difference gradient of its term):
+// the likelihood treats the sensors as independent given the prediction,
+// and where its spread of a sensor's charge or time is not the actual one
+// the sandwich still gives the covariance of the estimate (Huber 1967,
+// White 1982). The intrinsic part is what the likelihood of a mean
+// emission profile cannot see: each shower or muon fluctuates as a whole
+// about the mean. The table generator measures, on the simulated
+// particles of every energy node, the spread of the direction of the
+// event's light axis about the initial direction (multiple scattering,
+// the shower's early spread), of where along the track the event's light
+// starts (the distance below which 20% of it is emitted), and of its
+// photon count; the fit adds them as covariances of the two angles, of
+// the vertex along the track with the time that moves with it at c, and
+// of the energy (through dlnPhotons/dlnE). The two parts are independent
+// and add. Result.CramerRao is the measurement bound alone.
 //
 // # Identity
 //
 // Reconstruction.LLR is the muon fit's negative log likelihood less the
-// electron fit's. PIDCut calls an event electron-like when the LLR lies
+// electron fit's. A fit that stopped at a limit (fit.AtLimit) keeps its
+// likelihood without the walls and takes part (Result.Usable): a stopping
+// muon whose fit ran to the top of the tables is still a muon. PIDCut calls an event electron-like when the LLR lies
 // above a line in the mean fitted momentum; the zero PIDCut compares the
 // likelihoods directly. CalibratePID fits the line to simulated electrons
 // and muons of a detector (midway between the electrons' 1% and the
@@ -167,10 +183,19 @@
 // track one way in each event; counted about the initial direction, the
 // mean over events would turn that tilt into a symmetric widening of the
 // cone that no single event has, and a fit of one event with it would be
-// pulled forward along the track where rings are thin. The profiles
-// depend only on the particle physics and the refractive index;
-// absorption, scattering, the sensors and the tank are parameters of the
-// Fitter.
+// pulled forward along the track where rings are thin. With the profiles
+// each node records the event-to-event fluctuations of the emission (see
+// Uncertainties). The profiles depend only on the particle physics and
+// the refractive index; absorption, scattering, the sensors and the tank
+// are parameters of the Fitter. The file records its provenance: the
+// generator and its version, the seeds, and every constant of the code
+// the tables depend on (water, band, Cherenkov-averaged refractive
+// index, the electron and muon physics settings, energy ladders, event
+// counts, binning) with their SHA-256 hash; the generator's
+// TestTablesCurrent fails, naming the command, when the code's constants
+// no longer give that hash. New refuses a detector whose water's
+// Cherenkov-averaged refractive index differs from the tables' by more
+// than 0.003 (the cone turned by 0.15 degrees).
 // Between nodes the profiles are interpolated in log energy at the same
 // scaled distance.
 //

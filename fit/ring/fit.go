@@ -33,14 +33,15 @@ type Result struct {
 	// uncertainties; when they were wanted but could not be had (the
 	// numerical Hessian not positive definite) Reason says why.
 	ErrorsValid bool
-	// Errors are from the curvature of the likelihood (the inverse of the
-	// numerical Hessian), the two angles along the axes of phys.Basis of
-	// Track.Dir; Cov is that covariance matrix in the parameter order of
-	// NumParams. Fit computes them for the hypothesis with the
-	// better likelihood only (FitFrom for its one hypothesis); they are
-	// zero for the other, when Config.SkipUncertainties is set or when the
-	// fit failed. They are statistical only: see the package
-	// documentation on pulls.
+	// Errors are the square roots of the diagonal of Cov, the two angles
+	// along the axes of phys.Basis of Track.Dir; Cov is the covariance
+	// matrix in the parameter order of NumParams: the measurement part
+	// (the sandwich of the likelihood's Hessian and the sensors' scores)
+	// plus the intrinsic fluctuation of the emission as a whole (see the
+	// package documentation, Uncertainties). Fit computes them for the
+	// hypothesis with the better likelihood only (FitFrom for its one
+	// hypothesis); they are zero for the other, when
+	// Config.SkipUncertainties is set or when the fit failed.
 	Errors fit.Errors
 	Cov    [NumParams][NumParams]float64
 	// CramerRao is the Cramer-Rao bound at the fitted track: the
@@ -138,10 +139,10 @@ func (w *workspace) fitEvent(hits []pmt.Hit, win Window) (Reconstruction, error)
 	// track and keep the better of its two fits.
 	if math.Abs(rec.LLR) < crossSeedLLR || rec.Electron.Status != fit.Converged || rec.Muon.Status != fit.Converged || disagree(&rec.Electron.Track, &rec.Muon.Track) {
 		from, to := &rec.Electron, &rec.Muon
-		if rec.LLR < 0 || rec.Electron.Status != fit.Converged {
+		if rec.LLR < 0 || !rec.Electron.Usable() {
 			from, to = &rec.Muon, &rec.Electron
 		}
-		if from.Status == fit.Converged {
+		if from.Usable() {
 			h := to.Hypothesis
 			seed := w.trackSeed(h, from.Track.Vertex, from.Track.Time, from.Track.Dir)
 			if alt := w.fitLoaded(h, seed); alt.Status == fit.Converged && (to.Status != fit.Converged || alt.NLL < to.NLL) {
@@ -205,4 +206,24 @@ func (w *workspace) fitFrom(hits []pmt.Hit, win Window, h Hypothesis, seed fit.T
 	res := w.fitLoaded(h, seed)
 	w.addUncertainties(&res)
 	return res, nil
+}
+
+// NLLParts returns the negative log likelihood of hypothesis h with track
+// tr for an event, split into the charge terms of every live sensor and
+// the time terms of the hit ones, on the hits Fit would use with the
+// prompt window about tr.Time: for likelihood scans that find which part
+// of the model pulls a fit (examples/ringstudy -scan).
+func (f *Fitter) NLLParts(hits []pmt.Hit, win Window, h Hypothesis, tr fit.Track) (charge, time float64, err error) {
+	if err := f.checkTrack(h, tr); err != nil {
+		return 0, 0, err
+	}
+	w := f.workspace()
+	defer f.pool.Put(w)
+	if _, err := w.selectAround(hits, win, tr.Time); err != nil {
+		return 0, 0, err
+	}
+	tr.Dir = tr.Dir.Normalize()
+	all := w.nll(h, tr)
+	time = w.timeShiftNLL(0)
+	return all - time, time, nil
 }

@@ -129,6 +129,53 @@ func (g *stepGrid) stepLight(km int, ca, ra float64, ja int, cb, rb float64, jb 
 	return g.frac[km] * gk * wsum
 }
 
+// arrival returns the light-weighted mean arrival time (ns after the
+// track's start) and its variance of the direct light at a sensor (the
+// geometry as for direct), each step's light arriving from its midpoint
+// at s/c + delay(s) + R/v_g; ok is false when no light reaches it.
+func (g *stepGrid) arrival(d2, z, dn, un float64, accT, attT []float64, invAttStep float64, delay []float64, binDS, invGroup float64) (mean, variance float64, ok bool) {
+	edge := func(s float64) (c, rc, wt, R float64, j int) {
+		R2 := math.Max(d2-2*s*z+s*s, 1)
+		R = math.Sqrt(R2)
+		c = (z - s) / R
+		if ci := (s*un - dn) / R; ci > 0 {
+			xa := ci * accN
+			ka := min(int(xa), accN-1)
+			acc := accT[ka] + (xa-float64(ka))*(accT[ka+1]-accT[ka])
+			xr := R * invAttStep
+			kr := int(xr)
+			att := attT[len(attT)-1]
+			if kr < len(attT)-1 {
+				att = attT[kr] + (xr-float64(kr))*(attT[kr+1]-attT[kr])
+			}
+			wt = ci / R2 * acc * att
+		}
+		j, rc = cosCell(c)
+		return c, rc, wt, R, j
+	}
+	var sw, st, st2 float64
+	cA, rA, wA, _, jA := edge(g.edges[0])
+	for k := 0; k < g.n; k++ {
+		cB, rB, wB, _, jB := edge(g.edges[k+1])
+		l := g.stepLight(k, cA, rA, jA, cB, rB, jB, wA+wB)
+		if l > 0 {
+			sm := 0.5 * (g.edges[k] + g.edges[k+1])
+			Rm := math.Sqrt(math.Max(d2-2*sm*z+sm*sm, 0))
+			kd := min(int(sm/binDS), len(delay)-1)
+			t := sm/phys.SpeedOfLight + delay[kd] + Rm*invGroup
+			sw += l
+			st += l * t
+			st2 += l * t * t
+		}
+		cA, rA, jA, wA = cB, rB, jB, wB
+	}
+	if !(sw > 0) {
+		return 0, 0, false
+	}
+	mean = st / sw
+	return mean, math.Max(st2/sw-mean*mean, 0), true
+}
+
 // Predict fills mu with the predicted mean number of photoelectrons
 // (direct, scattered and reflected light, without dark noise) and t with
 // the predicted direct-light time (ns) at every sensor for hypothesis h
@@ -208,15 +255,37 @@ func (w *workspace) predict(h Hypothesis, tr fit.Track) {
 		// Direct-light time from the point that sees the sensor at the
 		// Cherenkov angle.
 		b := math.Sqrt(math.Max(d2-z*z, 0))
-		s := z - b/tan
-		s = min(max(s, 0), tEnd)
+		sRaw := z - b/tan
+		s := min(max(sRaw, 0), tEnd)
 		R := math.Sqrt(math.Max(d2-2*s*z+s*s, 0))
 		if w.allTimes || w.hitQ[i] >= 0 {
 			// The likelihood needs the times of hit sensors only.
 			k := min(int(s/binDS), profile.NS-1)
-			w.tDir[i] = tr.Time + s/phys.SpeedOfLight + p.delay[k] + R*r.invGroup
+			t := s/phys.SpeedOfLight + p.delay[k] + R*r.invGroup
 			sd := R * r.invGroupSD
-			w.sgT[i] = math.Sqrt(sig0 + sd*sd)
+			v := sig0 + sd*sd
+			if h == Electron && sRaw < 0 && mu > 0 {
+				// Outside the ring's outer edge no point of the
+				// track sees the sensor at the Cherenkov angle. A
+				// shower's light there is emitted at larger angles by
+				// its particles at depth, not at the start (timed from
+				// the start, these sensors pulled an electron's vertex
+				// 30 cm forward, the tables' shower forward). Its time
+				// is the light-weighted mean arrival over the steps,
+				// with their spread, reached over one step beyond the
+				// edge so that the prediction stays continuous in the
+				// track. A muon emits at the Cherenkov angle from its
+				// start, and its light outside the ring (delta rays,
+				// scattering) comes early along the track: the start
+				// is its time.
+				if tm, vm, ok := grid.arrival(d2, z, dn, un, accT, attT, invAttStep, p.delay[:], binDS, r.invGroup); ok {
+					a := min(-sRaw/p.ds, 1)
+					t += a * (tm - t)
+					v += a * vm
+				}
+			}
+			w.tDir[i] = tr.Time + t
+			w.sgT[i] = math.Sqrt(v)
 		}
 		sumD += mu
 		sumDR += mu * R

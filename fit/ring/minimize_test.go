@@ -91,7 +91,7 @@ func TestScoringReachesMinimum(t *testing.T) {
 			t.Errorf("event %d (%v): BFGS from the fit lowers the NLL by %.3f", k, ev.h, gain)
 		}
 		// The demo-tank resolutions at 600 MeV/c are about 7-20 cm and
-		// 0.8-1.4 degrees (testdata/ring/demo_baseline.txt); a minimum
+		// 0.8-1.4 degrees (testdata/ring/demo_baseline.json); a minimum
 		// found must hold to a quarter of that.
 		if dv > 2 || da > 0.2 {
 			t.Errorf("event %d (%v): BFGS moves the track by %.2f cm, %.3f deg", k, ev.h, dv, da)
@@ -236,7 +236,7 @@ func TestLaterBurst(t *testing.T) {
 		t.Errorf("seed time %.1f ns: the later burst took the seed", rec.Seed.Time)
 	}
 	// 68% momentum resolution at 300 MeV/c in the demo tank is 3-7%
-	// (testdata/ring/demo_baseline.txt); 5 times that bounds a good fit.
+	// (testdata/ring/demo_baseline.json); 5 times that bounds a good fit.
 	if rec.Muon.Status != fit.Converged || math.Abs(rec.Muon.Track.Ekin/mu.Ekin-1) > 0.3 {
 		t.Errorf("muon fit %+v", rec.Muon)
 	}

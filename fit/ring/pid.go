@@ -20,15 +20,29 @@ type PIDCut struct {
 	Offset, Slope float64
 }
 
+// Usable reports whether the likelihood of r can take part in the
+// identity: the fit converged, or it stopped at a limit (fit.AtLimit: the
+// minimum on the tank wall or at an end of the table energy range, Reason
+// says which) with a finite likelihood. A muon that stops beyond the top
+// of the tables still has by far the better likelihood of the two
+// hypotheses, and calling it an electron because its own fit is at a
+// limit would be wrong.
+func (r *Result) Usable() bool {
+	return (r.Status == fit.Converged || r.Status == fit.AtLimit) && finite(r.NLL)
+}
+
 // PDG returns 11 for an e-like event, 13 for a mu-like one and 0 when
-// neither fit converged. When only one converged it is chosen.
+// neither fit is usable (Result.Usable: converged, or stopped at a limit
+// with a finite likelihood). When only one is usable it is chosen; when
+// both are, the likelihood ratio decides, whether or not one stopped at a
+// limit (the chosen Result's Status and Reason say so).
 func (c PIDCut) PDG(r *Reconstruction) int {
 	switch {
-	case r.Electron.Status != fit.Converged && r.Muon.Status != fit.Converged:
+	case !r.Electron.Usable() && !r.Muon.Usable():
 		return 0
-	case r.Muon.Status != fit.Converged:
+	case !r.Muon.Usable():
 		return phys.Electron
-	case r.Electron.Status != fit.Converged:
+	case !r.Electron.Usable():
 		return phys.MuonMinus
 	}
 	p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum) / 1000
@@ -39,7 +53,8 @@ func (c PIDCut) PDG(r *Reconstruction) int {
 }
 
 // Best returns the result of the hypothesis c picks (the electron when
-// neither converged).
+// neither is usable). Its Status may be fit.AtLimit, with the reason in
+// Result.Reason.
 func (c PIDCut) Best(r *Reconstruction) *Result {
 	if c.PDG(r) == phys.MuonMinus {
 		return &r.Muon
@@ -52,8 +67,8 @@ func (c PIDCut) Best(r *Reconstruction) *Result {
 // width binWidth (MeV/c; the PIDCut momentum is the mean of the two fitted
 // momenta), the midpoint between the electrons' 1% quantile of LLR and
 // the muons' 99% quantile, and the least-squares line through the
-// midpoints. Events where either fit did not converge are left out. At
-// least two bins must hold both species.
+// midpoints. Events where either fit is not usable (Result.Usable) are
+// left out. At least two bins must hold both species.
 //
 // The 1% and 99% quantiles make the line robust against a stray event
 // while it still keeps the tails of both samples on their side; calibrate
@@ -65,7 +80,7 @@ func CalibratePID(electrons, muons []Reconstruction, binWidth float64) (PIDCut, 
 	type bin struct{ e, mu []float64 }
 	bins := map[int]*bin{}
 	add := func(r *Reconstruction, electron bool) {
-		if r.Electron.Status != fit.Converged || r.Muon.Status != fit.Converged || !finite(r.LLR) {
+		if !r.Electron.Usable() || !r.Muon.Usable() || !finite(r.LLR) {
 			return
 		}
 		p := 0.5 * (r.Electron.Momentum + r.Muon.Momentum)

@@ -63,3 +63,52 @@ func TestCalibratePID(t *testing.T) {
 		t.Error("NaN bin width: want an error")
 	}
 }
+
+// TestPIDUsesLimitedFits: a hypothesis whose fit stopped at a limit
+// (fit.AtLimit, a finite likelihood) still takes part in the identity by
+// its likelihood, while one that did not converge or has no finite
+// likelihood does not. The case is that of a stopping muon whose fit ran
+// to the top of the energy tables with by far the better likelihood
+// (LLR -155): the identity must say muon, not the only converged
+// hypothesis.
+func TestPIDUsesLimitedFits(t *testing.T) {
+	limited := "energy 3000 MeV at the edge of the table range 65-3000 MeV"
+	for _, c := range []struct {
+		name   string
+		e, mu  Result
+		want   int
+		reason string
+	}{
+		{"muon at the top of the tables", Result{Status: fit.Converged, NLL: 1000}, Result{Status: fit.AtLimit, NLL: 845, Reason: limited}, phys.MuonMinus, limited},
+		{"electron at the wall", Result{Status: fit.AtLimit, NLL: 800, Reason: "vertex outside the tank"}, Result{Status: fit.Converged, NLL: 845}, phys.Electron, "vertex outside the tank"},
+		{"muon at a limit, worse", Result{Status: fit.Converged, NLL: 800}, Result{Status: fit.AtLimit, NLL: 845, Reason: limited}, phys.Electron, ""},
+		{"muon not converged", Result{Status: fit.Converged, NLL: 1000}, Result{Status: fit.NotConverged, NLL: 845}, phys.Electron, ""},
+		{"muon at a limit, NaN likelihood", Result{Status: fit.Converged, NLL: 1000}, Result{Status: fit.AtLimit, NLL: math.NaN()}, phys.Electron, ""},
+		{"both at limits", Result{Status: fit.AtLimit, NLL: 1000}, Result{Status: fit.AtLimit, NLL: 845, Reason: limited}, phys.MuonMinus, limited},
+		{"neither fitted", Result{}, Result{}, 0, ""},
+	} {
+		c.e.Hypothesis, c.mu.Hypothesis = Electron, Muon
+		r := Reconstruction{Electron: c.e, Muon: c.mu, LLR: c.mu.NLL - c.e.NLL}
+		if got := (PIDCut{}).PDG(&r); got != c.want {
+			t.Errorf("%s: PDG %d, want %d", c.name, got, c.want)
+		}
+		if got := (PIDCut{}).Best(&r).Reason; got != c.reason {
+			t.Errorf("%s: Best().Reason %q, want %q", c.name, got, c.reason)
+		}
+	}
+	// CalibratePID counts events with a hypothesis at a limit.
+	var es, mus []Reconstruction
+	for i := 0; i < 40; i++ {
+		p := 200 + 25*float64(i)
+		e := Reconstruction{Electron: Result{Status: fit.Converged, Momentum: p}, Muon: Result{Status: fit.AtLimit, Momentum: p}, LLR: 300}
+		m := Reconstruction{Electron: Result{Status: fit.Converged, Momentum: p}, Muon: Result{Status: fit.AtLimit, Momentum: p}, LLR: -300}
+		es, mus = append(es, e), append(mus, m)
+	}
+	cut, err := CalibratePID(es, mus, 200)
+	if err != nil {
+		t.Fatalf("CalibratePID with muon fits at a limit: %v", err)
+	}
+	if math.Abs(cut.Offset) > 1e-6 || math.Abs(cut.Slope) > 1e-6 {
+		t.Errorf("cut %+v, want the midpoint line LLR = 0", cut)
+	}
+}

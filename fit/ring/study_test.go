@@ -4,7 +4,6 @@ import (
 	"math"
 	"math/rand/v2"
 	"runtime"
-	"sort"
 	"sync"
 	"testing"
 	"time"
@@ -206,21 +205,4 @@ func simulateContained(t testing.TB, s *sim.Simulator, rng *rand.Rand, pt point,
 		return ev.Hits
 	}
 	return nil
-}
-
-// quantile returns the q quantile of xs (nearest rank), NaN when empty.
-func quantile(xs []float64, q float64) float64 {
-	if len(xs) == 0 {
-		return math.NaN()
-	}
-	s := append([]float64(nil), xs...)
-	sort.Float64s(s)
-	i := int(math.Ceil(q*float64(len(s)))) - 1
-	return s[min(max(i, 0), len(s)-1)]
-}
-
-// width returns the half distance between the 16% and 84% quantiles: the
-// standard deviation for a normal sample, robust against outliers.
-func width(xs []float64) float64 {
-	return 0.5 * (quantile(xs, 0.84) - quantile(xs, 0.16))
 }

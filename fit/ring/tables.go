@@ -29,10 +29,17 @@ type speciesTable struct {
 	uni      [][]float64 // [node][step*(uniNC+1)+j]: see resample
 	delay    [][]float64 // [node][k]
 	cosLo    []float64   // NC+1 cosine edges
+	// event-to-event fluctuations per node (profile.Node)
+	axisVar, startSD, photonsSD []float64
 }
 
 type tableSet struct {
 	bandLo, bandHi float64
+	// index is the Cherenkov-averaged refractive index of the water the
+	// tables were made with, water its description.
+	index          float64
+	water          string
+	provenance     profile.Provenance
 	electron, muon *speciesTable
 }
 
@@ -61,7 +68,7 @@ func decodeTables(b []byte) (*tableSet, error) {
 	if f.Format != profile.FormatName || f.Version != profile.FormatVersion {
 		return nil, fmt.Errorf("ring: profile tables: format %q version %d, want %q %d", f.Format, f.Version, profile.FormatName, profile.FormatVersion)
 	}
-	ts := &tableSet{bandLo: f.BandLo, bandHi: f.BandHi}
+	ts := &tableSet{bandLo: f.BandLo, bandHi: f.BandHi, index: f.Index, water: f.Water, provenance: f.Provenance}
 	for _, sp := range f.Species {
 		if sp.NS != profile.NS || len(sp.CosEdges) != profile.NC+1 || len(sp.Nodes) != len(sp.Energies) || len(sp.Nodes) < 2 {
 			return nil, fmt.Errorf("ring: profile tables: species %d has inconsistent dimensions", sp.PDG)
@@ -85,6 +92,9 @@ func decodeTables(b []byte) (*tableSet, error) {
 			}
 			t.uni = append(t.uni, resample(c, sp.CosEdges))
 			t.delay = append(t.delay, d)
+			t.axisVar = append(t.axisVar, nd.AxisVar)
+			t.startSD = append(t.startSD, nd.StartSD)
+			t.photonsSD = append(t.photonsSD, nd.PhotonsSD)
 		}
 		switch sp.PDG {
 		case 11:
@@ -124,6 +134,11 @@ type profileAt struct {
 	// light90 is the s (cm) below which 90% of the light is emitted: the
 	// end of the track for the time prediction.
 	light90 float64
+	// The event-to-event fluctuations (profile.Node): axis variance per
+	// transverse component (rad^2), spread of the start of the light
+	// (cm), relative spread of the photon count, and dlnPhotons/dlnE,
+	// which turns the last into an energy spread.
+	axisVar, startSD, photonsSD, photonSlope float64
 }
 
 // interpolate fills p for kinetic energy e, which must lie in the table
@@ -158,6 +173,10 @@ func (t *speciesTable) interpolate(e float64, p *profileAt) {
 		p.total[k] = p.cum[base+uniNC]
 		total += p.total[k]
 	}
+	p.axisVar = a*t.axisVar[i] + b*t.axisVar[i+1]
+	p.startSD = a*t.startSD[i] + b*t.startSD[i+1]
+	p.photonsSD = a*t.photonsSD[i] + b*t.photonsSD[i+1]
+	p.photonSlope = math.Log(t.photons[i+1]/t.photons[i]) / (t.logE[i+1] - t.logE[i])
 	da, db := t.delay[i], t.delay[i+1]
 	for k := range p.delay {
 		p.delay[k] = a*da[k] + b*db[k]

@@ -30,7 +30,12 @@ func (w *workspace) fitLoaded(h Hypothesis, seed fit.Track) Result {
 	best, eOut := fr.track(x)
 	res.Track = best
 	res.Momentum = phys.Momentum(best.Ekin, h.Mass())
-	res.NLL = fx
+	// The likelihood without the walls, at the track inside the allowed
+	// region that the objective evaluated (energy clamped to the tables,
+	// vertex pulled inside): a fit stopped at a limit still gives the
+	// identity its likelihood.
+	_, pen := w.penalty(&fr, x)
+	res.NLL = fx - pen
 	switch {
 	case !finite(fx):
 		res.Reason = "likelihood not finite"

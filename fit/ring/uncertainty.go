@@ -34,6 +34,7 @@ func (w *workspace) addUncertainties(res *Result) {
 	ok := false
 	for _, step := range []float64{0.25, 0.6} {
 		curv = w.curvatureAt(h, &fr, step)
+		curv.step = step
 		if ok = ch.Factorize(curv.hess); ok {
 			break
 		}
@@ -43,12 +44,14 @@ func (w *workspace) addUncertainties(res *Result) {
 		res.Reason = "Hessian not positive definite"
 		return
 	}
-	var cov mat.SymDense
-	if err := ch.InverseTo(&cov); err != nil {
+	var hinv mat.SymDense
+	if err := ch.InverseTo(&hinv); err != nil {
 		res.Reason = fmt.Sprintf("Hessian inversion: %v", err)
 		return
 	}
-	res.Cov = fr.physCov(&cov)
+	cov := minimize.Sandwich(&hinv, w.sensorScores(h, &fr, curv.step))
+	res.Cov = fr.physCov(cov)
+	w.addIntrinsic(h, best, &res.Cov)
 	res.Errors = errorsFrom(&res.Cov, h, best.Ekin)
 	res.CramerRao = w.cramerRao(h, best, curv)
 	res.Evaluations = w.evals
@@ -69,6 +72,7 @@ func (w *workspace) addUncertainties(res *Result) {
 // it for the Cramer-Rao bound.
 type curvature struct {
 	hess *mat.SymDense
+	step float64 // the stencil's step, scaled units
 	// dmu[j][i] and dt[j][i] are the central-difference derivatives of
 	// sensor i's mean pe and direct-light time in variable j.
 	dmu, dt [NumParams][]float64
@@ -101,6 +105,64 @@ func (w *workspace) curvatureAt(h Hypothesis, fr *frame, step float64) *curvatur
 		}
 	})
 	return c
+}
+
+// addIntrinsic adds to cov, the covariance of the fit of hypothesis h at
+// track tr, that of the event-to-event fluctuations of the emission as a
+// whole, which the likelihood of the mean profile cannot see: the
+// direction of an event's light axis about the particle's initial
+// direction (a muon's multiple scattering, a shower's early spread), the
+// start of its light along the track (where a shower begins to radiate)
+// with the time that moves with it at c, and its photon count (shower and
+// delta-ray fluctuations, straggling) turned into kinetic energy by
+// dlnPhotons/dlnE. The generator measures each on the simulated particles
+// of every table node (profile.Node); they are independent of the
+// measurement noise and add to its covariance.
+func (w *workspace) addIntrinsic(h Hypothesis, tr fit.Track, cov *[NumParams][NumParams]float64) {
+	p := &w.prof
+	w.f.species(h).interpolate(tr.Ekin, p)
+	u := [3]float64{tr.Dir.X, tr.Dir.Y, tr.Dir.Z}
+	v := p.startSD * p.startSD
+	c := phys.SpeedOfLight
+	for a := 0; a < 3; a++ {
+		for b := 0; b < 3; b++ {
+			cov[a][b] += v * u[a] * u[b]
+		}
+		cov[a][3] += v * u[a] / c
+		cov[3][a] += v * u[a] / c
+	}
+	cov[3][3] += v / (c * c)
+	cov[4][4] += p.axisVar
+	cov[5][5] += p.axisVar
+	if p.photonSlope > 0 {
+		se := tr.Ekin * p.photonsSD / p.photonSlope
+		cov[6][6] += se * se
+	}
+}
+
+// sensorScores returns every sensor's score at the origin of fr, the
+// central-difference derivative of its term of the negative log
+// likelihood in each scaled variable, with step step; scores[j][i] is
+// sensor i's in variable j (zero for dead sensors and for unhit sensors
+// where the term does not change).
+func (w *workspace) sensorScores(h Hypothesis, fr *frame, step float64) [][]float64 {
+	n := w.f.n
+	scores := make([][]float64, NumParams)
+	plus, minus := make([]float64, n), make([]float64, n)
+	x := make([]float64, NumParams)
+	for j := range scores {
+		x[j] = step
+		w.evalTerms(h, fr, x, plus)
+		x[j] = -step
+		w.evalTerms(h, fr, x, minus)
+		x[j] = 0
+		s := make([]float64, n)
+		for i := range s {
+			s[i] = (plus[i] - minus[i]) / (2 * step)
+		}
+		scores[j] = s
+	}
+	return scores
 }
 
 // curvatureProblem is the objective of hypothesis h in the variables of

@@ -25,7 +25,9 @@ package main
 
 import (
 	"compress/gzip"
+	"crypto/sha256"
 	"encoding/gob"
+	"encoding/hex"
 	"flag"
 	"fmt"
 	"io"
@@ -33,10 +35,12 @@ import (
 	"math"
 	"math/rand/v2"
 	"runtime"
+	"strings"
 	"sync"
 
 	"github.com/golang/geo/r3"
 
+	"github.com/conelight/conelight/fit/resolution"
 	"github.com/conelight/conelight/fit/ring/internal/profile"
 	"github.com/conelight/conelight/geom/safefile"
 	"github.com/conelight/conelight/sim/cherenkov"
@@ -80,6 +84,10 @@ type counter struct {
 	ownAxis bool        // count each event about its own light axis (muons)
 	event   []cherenkov.Photon
 	err     error
+	// per-event fluctuations: photon counts, the transverse components
+	// of the light axis (two per event), the starts of the light
+	counts, axes, starts []float64
+	evHist               []float64 // this event's photons per fine s bin
 }
 
 func (c *counter) Segment(seg phys.Segment) {
@@ -92,11 +100,7 @@ func (c *counter) Segment(seg phys.Segment) {
 		c.err = err
 		return
 	}
-	if c.ownAxis {
-		c.event = append(c.event, c.photons...)
-		return
-	}
-	c.fill(c.photons, c.dir)
+	c.event = append(c.event, c.photons...)
 }
 
 // fill counts photons by s along the unit axis a from the start and by
@@ -139,11 +143,8 @@ const axisFraction = 1.0 / 3
 // straight-track fit of the event estimates, the tables keep only the
 // spread of the light about it.
 func (c *counter) flush() {
-	if !c.ownAxis {
-		return
-	}
 	a := c.dir
-	if len(c.event) > 0 {
+	if c.ownAxis && len(c.event) > 0 {
 		var smax float64
 		for _, p := range c.event {
 			smax = math.Max(smax, p.Pos.Sub(c.start).Dot(c.dir))
@@ -162,59 +163,145 @@ func (c *counter) flush() {
 			}
 		}
 	}
+	c.fluctuations(a)
 	c.fill(c.event, a)
 	c.event = c.event[:0]
+}
+
+// fluctuations adds the event held to the sums of the event-to-event
+// fluctuations: its photon count, the transverse components of its light
+// axis (a for muons; from the start to the centroid of all emission
+// points for electrons) and the distance along the initial direction
+// below which profile.StartFraction of its light is emitted.
+func (c *counter) fluctuations(a r3.Vector) {
+	n := float64(len(c.event))
+	c.counts = append(c.counts, n)
+	if n == 0 {
+		return
+	}
+	if !c.ownAxis {
+		var cen r3.Vector
+		for _, p := range c.event {
+			cen = cen.Add(p.Pos)
+		}
+		if d := cen.Mul(1 / n).Sub(c.start); d.Norm() > 1e-6 {
+			a = d.Normalize()
+		}
+	}
+	// transverse components about the initial direction (z)
+	c.axes = append(c.axes, a.X, a.Y)
+	for i := range c.evHist {
+		c.evHist[i] = 0
+	}
+	for _, p := range c.event {
+		s := math.Max(p.Pos.Sub(c.start).Dot(c.dir), 0)
+		c.evHist[min(int(s/fineDS), len(c.evHist)-1)]++
+	}
+	var acc float64
+	for k, v := range c.evHist {
+		if acc+v >= profile.StartFraction*n {
+			s := (float64(k) + (profile.StartFraction*n-acc)/v) * fineDS
+			c.starts = append(c.starts, s)
+			return
+		}
+		acc += v
+	}
 }
 func (c *counter) Secondary(phys.Particle)                  {}
 func (c *counter) Deposit(r3.Vector, float64, float64, int) {}
 
+// version is the generator's version: raise it when the method changes
+// in a way the constants below do not show.
+const version = 2
+
+// defaultScale is the event scale that go generate uses (the
+// //go:generate line in package ring).
+const defaultScale = 1.5
+
+// species are the particle kinds and their energy ladders: nodes kinetic
+// energies geometric from lo to hi (MeV), baseline events at 100 MeV
+// (more below, fewer above).
+var species = []struct {
+	pdg      int
+	lo, hi   float64
+	nodes    int
+	baseline float64
+}{
+	{phys.Electron, 20, 3000, 23, 300},
+	{phys.MuonMinus, 65, 3000, 23, 300},
+}
+
 func main() {
 	out := flag.String("o", "profiles.gob.gz", "output file")
-	scale := flag.Float64("events", 1, "scale factor on the number of events per energy")
+	scale := flag.Float64("events", defaultScale, "scale factor on the number of events per energy")
 	flag.Parse()
 	if err := run(*out, *scale); err != nil {
 		log.Fatal(err)
 	}
 }
 
-func run(out string, scale float64) error {
+// setup is what the tables are made with.
+type setup struct {
+	water   *optics.Water
+	emitter *cherenkov.Emitter
+	physics *transport.Physics
+	file    profile.File // header and provenance
+}
+
+// configure builds the water, the emitter and the transport the tables
+// are made with, and the file header with its provenance: every constant
+// of the code the tables depend on, written out, and its hash.
+func configure(scale float64) (*setup, error) {
 	water, err := optics.NewWater(optics.DefaultWaterConfig())
 	if err != nil {
-		return err
+		return nil, err
 	}
 	// The band of light photosensors behind glass can detect: the tables
 	// count only it, so that the cone width is that of the detectable
 	// light (ultraviolet photons, emitted at larger angles, would widen it).
 	lo, hi := math.Max(detectLo, 0), detectHi
 	if wlo, whi := water.Band(); lo < wlo || hi > whi {
-		return fmt.Errorf("gentables: band %g-%g nm outside the water tables %g-%g nm", lo, hi, wlo, whi)
+		return nil, fmt.Errorf("gentables: band %g-%g nm outside the water tables %g-%g nm", lo, hi, wlo, whi)
 	}
 	emitter, err := cherenkov.NewEmitter(water, lo, hi, 1)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	nmax := 1 / emitter.Threshold()
 	emCfg, err := em.ConfigForIndex(nmax)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	muCfg := muon.DefaultConfig()
 	muCfg.ThresholdIndex = nmax
 	physics, err := transport.New(material.Water(), emCfg, muCfg)
 	if err != nil {
+		return nil, err
+	}
+	index := profile.CherenkovIndex(water, lo, hi)
+	var b strings.Builder
+	fmt.Fprintf(&b, "water %+v\nband %g-%g nm\nindex %.6f\nem %+v\nmuon %+v\nmaterial %+v\n", water.Config(), lo, hi, index, emCfg, muCfg, material.Water())
+	fmt.Fprintf(&b, "species %+v\nscale %g\naxisFraction %g\nmaxEmitTime %v\nfineDS %g\nNS %d NC %d\ncosEdges %v\nstartFraction %g\n",
+		species, scale, axisFraction, maxEmitTime, fineDS, profile.NS, profile.NC, profile.CosEdges(), profile.StartFraction)
+	sum := sha256.Sum256([]byte(b.String()))
+	file := profile.File{Format: profile.FormatName, Version: profile.FormatVersion,
+		BandLo: lo, BandHi: hi, Water: fmt.Sprintf("%+v", water.Config()), Index: index,
+		Provenance: profile.Provenance{
+			Generator: "fit/ring/internal/gentables", Version: version,
+			Command:   fmt.Sprintf("go generate ./fit/ring (go run ./internal/gentables -o profiles.gob.gz -events %g)", scale),
+			Seeds:     "PCG(PDG+1000, node index) per species and energy node",
+			Constants: b.String(), Hash: hex.EncodeToString(sum[:]),
+		}}
+	return &setup{water: water, emitter: emitter, physics: physics, file: file}, nil
+}
+
+func run(out string, scale float64) error {
+	st, err := configure(scale)
+	if err != nil {
 		return err
 	}
-	file := profile.File{Format: profile.FormatName, Version: profile.FormatVersion,
-		BandLo: lo, BandHi: hi, Water: fmt.Sprintf("%+v", water.Config())}
-	for _, sp := range []struct {
-		pdg      int
-		lo, hi   float64
-		nodes    int
-		baseline float64 // events at 100 MeV; fewer above, more below
-	}{
-		{phys.Electron, 20, 3000, 23, 300},
-		{phys.MuonMinus, 65, 3000, 23, 300},
-	} {
+	file := st.file
+	for _, sp := range species {
 		tab := profile.Species{PDG: sp.pdg, NS: profile.NS, CosEdges: profile.CosEdges()}
 		for k := 0; k < sp.nodes; k++ {
 			tab.Energies = append(tab.Energies, sp.lo*math.Pow(sp.hi/sp.lo, float64(k)/float64(sp.nodes-1)))
@@ -231,7 +318,7 @@ func run(out string, scale float64) error {
 			go func() {
 				defer wg.Done()
 				defer func() { <-sem }()
-				tab.Nodes[k], errs[k] = node(physics, emitter, sp.pdg, e, n, uint64(k))
+				tab.Nodes[k], errs[k] = node(st.physics, st.emitter, sp.pdg, e, n, uint64(k))
 			}()
 		}
 		wg.Wait()
@@ -257,7 +344,8 @@ func node(physics *transport.Physics, emitter *cherenkov.Emitter, pdg int, e flo
 	nf := int(maxS / fineDS)
 	c := &counter{emitter: emitter, dir: r3.Vector{Z: 1},
 		rng:  rand.New(rand.NewPCG(uint64(pdg+1000), stream)),
-		fine: make([][]float64, nf), tsum: make([]float64, nf), ownAxis: pdg == phys.MuonMinus}
+		fine: make([][]float64, nf), tsum: make([]float64, nf), ownAxis: pdg == phys.MuonMinus,
+		evHist: make([]float64, nf)}
 	for i := range c.fine {
 		c.fine[i] = make([]float64, profile.NC)
 	}
@@ -328,7 +416,34 @@ func node(physics *transport.Physics, emitter *cherenkov.Emitter, pdg int, e flo
 			nd.Delay[j] = float32(float64(nd.Delay[j]) / delayW[j])
 		}
 	}
-	log.Printf("PDG %d %8.2f MeV: %4d events, %9.0f photons, extent %6.1f cm, track %6.1f cm", pdg, e, n, nd.Photons, extent, nd.TrackLength)
+	// Robust widths, half the 16-84% range (the standard deviation of a
+	// normal core): a muon's decay electron within maxEmitTime, a few
+	// per cent of the events, would dominate a standard deviation of the
+	// photon count, while the fit leaves its light out of the prompt
+	// window.
+	width := func(x []float64) (float64, error) {
+		lo, err := resolution.Quantile(x, 0.16)
+		if err != nil {
+			return 0, err
+		}
+		hi, err := resolution.Quantile(x, 0.84)
+		return 0.5 * (hi.Value - lo.Value), err
+	}
+	wa, err := width(c.axes)
+	if err != nil {
+		return profile.Node{}, fmt.Errorf("gentables: PDG %d %g MeV: axis: %w", pdg, e, err)
+	}
+	ws, err := width(c.starts)
+	if err != nil {
+		return profile.Node{}, fmt.Errorf("gentables: PDG %d %g MeV: start: %w", pdg, e, err)
+	}
+	wn, err := width(c.counts)
+	if err != nil {
+		return profile.Node{}, fmt.Errorf("gentables: PDG %d %g MeV: photons: %w", pdg, e, err)
+	}
+	nd.AxisVar, nd.StartSD, nd.PhotonsSD = wa*wa, ws, wn/nd.Photons
+	log.Printf("PDG %d %8.2f MeV: %4d events, %9.0f photons (sd %.3f), extent %6.1f cm, track %6.1f cm, axis sd %.4f rad, start sd %.1f cm",
+		pdg, e, n, nd.Photons, nd.PhotonsSD, extent, nd.TrackLength, math.Sqrt(nd.AxisVar), nd.StartSD)
 	return nd, nil
 }
 

@@ -1,13 +1,31 @@
 // Package profile is the file format of the emission-profile tables shared
 // by package ring and its generator: the Cherenkov photon count of a
 // particle in (distance along the initial direction, cosine of the angle
-// to it) bins at a ladder of kinetic energies.
+// to it) bins at a ladder of kinetic energies, the event-to-event
+// fluctuations of the emission, and the provenance of the file.
 package profile
+
+import "github.com/conelight/conelight/sim/optics"
+
+// CherenkovIndex is the refractive index of w averaged over the Cherenkov
+// spectrum emitted between lo and hi nm (photons per unit wavelength
+// proportional to (1 - 1/n^2)/lambda^2), by the midpoint rule on 1 nm
+// steps: the index that sets the cone of the profiles.
+func CherenkovIndex(w *optics.Water, lo, hi float64) float64 {
+	var sw, sn float64
+	for l := lo + 0.5; l < hi; l++ {
+		n := w.Index(l)
+		g := (1 - 1/(n*n)) / (l * l)
+		sw += g
+		sn += g * n
+	}
+	return sn / sw
+}
 
 // FormatName and FormatVersion identify the table file.
 const (
 	FormatName    = "conelight-ring-profiles"
-	FormatVersion = 1
+	FormatVersion = 2
 )
 
 // NS is the number of s bins of every node; the bin width is the node's
@@ -67,7 +85,24 @@ type File struct {
 	// in; Water describes the water whose refractive index was used.
 	BandLo, BandHi float64
 	Water          string
-	Species        []Species
+	// Index is the refractive index of that water averaged over the
+	// Cherenkov spectrum in the band: the cone angle of the profiles.
+	Index      float64
+	Provenance Provenance
+	Species    []Species
+}
+
+// Provenance says how a table file was made: the generator and its
+// version, the command, the seeds, and the constants of the code the
+// tables depend on with their hash (SHA-256 of Constants), which the
+// generator's test recomputes from the code to find stale tables.
+type Provenance struct {
+	Generator string
+	Version   int
+	Command   string
+	Seeds     string
+	Constants string
+	Hash      string
 }
 
 // Species holds the nodes of one particle kind.
@@ -93,4 +128,19 @@ type Node struct {
 	Counts []float32
 	// Delay[k] is the mean emission time minus s/c (ns) in s bin k.
 	Delay []float32
+	// The event-to-event fluctuations of the emission as a whole, which
+	// the mean profile does not describe: AxisVar (rad^2) is the
+	// variance, per transverse component, of the direction of the
+	// event's light axis about the initial direction (the axis the
+	// counts use for muons; from the start to the centroid of all
+	// emission points for electrons); StartSD (cm) the spread of the
+	// distance along the initial direction below which StartFraction of
+	// the event's light is emitted; PhotonsSD the relative spread of the
+	// event's photon count. Spreads are half the 16-84% range of the
+	// events (the standard deviation of a normal core).
+	AxisVar, StartSD, PhotonsSD float64
 }
+
+// StartFraction is the fraction of an event's light whose end point along
+// the track measures where its light starts (Node.StartSD).
+const StartFraction = 0.2
