@@ -32,10 +32,8 @@ func benchEvents(b *testing.B, gd float64, noDark bool, prims func(i int) []phys
 	failed := 0
 	for i := 0; i < b.N; i++ {
 		if _, err := sm.Event(uint64(i), prims(i)); err != nil {
-			// Counted, not fatal: about 1 pion event in 1000 fails on a
-			// step of negative length in sim/heavy (a segment whose end
-			// time precedes its start), which the Cherenkov emitter
-			// refuses. Logged so that it cannot go unseen.
+			// Counted, not fatal, and logged so that it cannot go
+			// unseen: a benchmark must not hide a failing event.
 			failed++
 			b.Log(err)
 		}

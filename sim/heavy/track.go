@@ -129,14 +129,18 @@ func (p *Physics) Track(part phys.Particle, vol phys.Volume, rng *rand.Rand, sin
 		}
 		decay := false
 		if dtau := s * mass / (c * k0.p); tauAcc+dtau >= tauDecay {
-			s *= (tauDecay - tauAcc) / dtau
+			// The accumulator adds the step's mean rate while this limit
+			// uses the rate at its start, so it can pass the target by a
+			// hair without the limit firing; the step is then empty, never
+			// negative.
+			s *= math.Max(tauDecay-tauAcc, 0) / dtau
 			decay, delta, reachCut = true, false, false
 		}
 		interact := false
 		var sigHad float64
 		if p.hadronic != nil {
 			if sigHad = p.hadronicAt(ek); sigHad > 0 && depthAcc+sigHad*s >= depth {
-				s = (depth - depthAcc) / sigHad
+				s = math.Max(depth-depthAcc, 0) / sigHad // never negative (see the decay limit)
 				interact, decay, delta, reachCut = true, false, false, false
 			}
 		}
