@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"math/rand/v2"
 	"sync"
 
@@ -95,7 +96,7 @@ func scan(ctx context.Context, w io.Writer, o options) error {
 		tot := make([]float64, len(q))
 		for j, x := range scanShifts {
 			tot[j] = q[j] + t[j]
-			fmt.Fprintf(w, "%+8.0f %+12.2f %+12.2f %+12.2f\n", x, q[j]-c0, t[j]-t0, tot[j]-c0-t0)
+			fmt.Fprintf(w, "%+8.0f %+12.2f %+12.2f %+12.2f\n", x, unsignedZero(q[j]-c0), unsignedZero(t[j]-t0), unsignedZero(tot[j]-c0-t0))
 		}
 		fmt.Fprintf(w, "minimum: charge %+.1f cm, time %+.1f cm, total %+.1f cm\n\n", scanMinimum(scanShifts, q), scanMinimum(scanShifts, t), scanMinimum(scanShifts, tot))
 	}
@@ -120,4 +121,13 @@ func scanMinimum(x, y []float64) float64 {
 		return x[k]
 	}
 	return x[k] + 0.5*(x[k+1]-x[k])*(y0-y2)/den
+}
+
+// unsignedZero returns 0 for a value that prints as zero at two decimals,
+// so that rounding noise at the reference point never prints as "-0.00".
+func unsignedZero(v float64) float64 {
+	if math.Abs(v) < 0.005 {
+		return 0
+	}
+	return v
 }
