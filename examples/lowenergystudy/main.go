@@ -20,6 +20,7 @@ import (
 	"strings"
 
 	"github.com/conelight/conelight/examples/internal/cli"
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/fit"
 	"github.com/conelight/conelight/fit/lowenergy"
 	"github.com/conelight/conelight/fit/resolution"
@@ -36,11 +37,11 @@ var usage = cli.Usage{
 	Name:    "lowenergystudy",
 	Does:    "Measures the low-energy fitter's pull widths (vertex x, y, z, time, two direction angles, energy), the along-track vertex offset and the far-miss fraction among converged and unflagged fits, for electrons at each energy.",
 	Writes:  "a table on standard output",
-	Example: "go run ./examples/lowenergystudy -tank large -energies 5,10,20,50 -n 2000",
+	Example: "go run ./examples/lowenergystudy -detector large -energies 5,10,20,50 -n 2000",
 }
 
 func main() {
-	tank := flag.String("tank", "demo", "tank: demo or large")
+	tank := flag.String("detector", detflag.Default, detflag.Usage+"; the built-in large tank is simulated with the 10-hit trigger its fitter tables were made with")
 	energies := flag.String("energies", "5,10,20,50", "comma-separated kinetic energies, MeV")
 	n := flag.Int("n", 500, "events per energy")
 	seed := flag.Uint64("seed", 11, "run seed")
@@ -64,15 +65,14 @@ func main() {
 }
 
 func config(tank string, seed uint64) (sim.Config, error) {
-	switch tank {
-	case "demo":
-		return sim.DemoConfig(seed)
-	case "large":
-		cfg, err := sim.LargeConfig(seed)
-		cfg.Trigger = setup.DefaultTrigger()
-		return cfg, err
+	cfg, err := detflag.Config(tank, seed)
+	if err != nil {
+		return sim.Config{}, err
 	}
-	return sim.Config{}, fmt.Errorf("lowenergystudy: -tank %q: want demo or large", tank)
+	if tank == "large" {
+		cfg.Trigger = setup.DefaultTrigger()
+	}
+	return cfg, nil
 }
 
 // Study is the measurement at one energy.

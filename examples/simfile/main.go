@@ -17,6 +17,7 @@ import (
 	"os/signal"
 	"time"
 
+	"github.com/conelight/conelight/examples/internal/detflag"
 	"github.com/conelight/conelight/sim"
 	"github.com/conelight/conelight/sim/gen"
 )
@@ -66,6 +67,7 @@ type options struct {
 	wall          float64
 	every         time.Duration
 	unfollowed    bool
+	detector      string // -detector (detflag)
 }
 
 // summary is what a run did.
@@ -111,6 +113,7 @@ func parseArgs(args []string, stderr io.Writer) (options, error) {
 	}
 	fs.StringVar(&o.in, "in", "", "generator file to read (HepMC3 Asciiv3 or HepMC2 IO_GenEvent text); required")
 	fs.StringVar(&o.out, "out", "events.root", "ROOT event file to write")
+	fs.StringVar(&o.detector, "detector", detflag.Default, detflag.Usage)
 	fs.BoolVar(&o.unfollowed, "count-unfollowed", false, "record final-state particles the simulator cannot follow (kaons, hyperons) in the truth and count them, instead of stopping at them")
 	fs.Uint64Var(&o.seed, "seed", 1, "run seed (the same for every shard)")
 	fs.Uint64Var(&o.first, "first", 0, "index of the first event of the file to simulate (0-based)")
@@ -141,7 +144,7 @@ func parseArgs(args []string, stderr io.Writer) (options, error) {
 
 func run(ctx context.Context, o options, stderr io.Writer) (summary, error) {
 	var sum summary
-	cfg, err := sim.DemoConfig(o.seed)
+	cfg, err := detflag.Config(o.detector, o.seed)
 	if err != nil {
 		return sum, err
 	}
