@@ -361,17 +361,10 @@ func (p *hepParser) closeVertex2(line int64) error {
 	return nil
 }
 
-// particle2 reads "P barcode pdg px py pz E m status theta phi endVertex
-// nFlow [code index]...".
-func (p *hepParser) particle2(l *hepLine) error {
-	if p.orphans+p.outgoing == 0 {
-		return l.errf("no V line announces this particle")
-	}
-	part := hepPart{prod: -1, mother: -1, end: -1, line: l.no}
+// particleBody reads the fields both formats' P lines share, in the
+// same order: "pdg px py pz E m status".
+func (l *hepLine) particleBody(part *hepPart) error {
 	var err error
-	if part.id, err = l.int("barcode"); err != nil {
-		return err
-	}
 	if part.pdg, err = l.int("PDG code"); err != nil {
 		return err
 	}
@@ -383,7 +376,22 @@ func (p *hepParser) particle2(l *hepLine) error {
 	if part.m, err = l.float("generated mass"); err != nil {
 		return err
 	}
-	if part.status, err = l.int("status"); err != nil {
+	part.status, err = l.int("status")
+	return err
+}
+
+// particle2 reads "P barcode pdg px py pz E m status theta phi endVertex
+// nFlow [code index]...".
+func (p *hepParser) particle2(l *hepLine) error {
+	if p.orphans+p.outgoing == 0 {
+		return l.errf("no V line announces this particle")
+	}
+	part := hepPart{prod: -1, mother: -1, end: -1, line: l.no}
+	var err error
+	if part.id, err = l.int("barcode"); err != nil {
+		return err
+	}
+	if err := l.particleBody(&part); err != nil {
 		return err
 	}
 	for _, what := range []string{"theta", "phi"} {
@@ -614,18 +622,7 @@ func (p *hepParser) particle3(l *hepLine) error {
 	if err != nil {
 		return err
 	}
-	if part.pdg, err = l.int("PDG code"); err != nil {
-		return err
-	}
-	for k, what := range []string{"px", "py", "pz", "E"} {
-		if part.p[k], err = l.float(what); err != nil {
-			return err
-		}
-	}
-	if part.m, err = l.float("generated mass"); err != nil {
-		return err
-	}
-	if part.status, err = l.int("status"); err != nil {
+	if err := l.particleBody(&part); err != nil {
 		return err
 	}
 	if err := l.end(); err != nil {
